@@ -1,0 +1,3 @@
+export default function Loading() {
+  return <p className="p-6 text-lg text-ink-soft">Loading…</p>;
+}

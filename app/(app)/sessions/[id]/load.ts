@@ -1,0 +1,17 @@
+import { notFound } from 'next/navigation';
+import { z } from 'zod';
+import { db } from '@/db/client';
+import type { Actor } from '@/lib/auth/actor';
+import { AppError } from '@/lib/errors';
+import { loadSessionFor } from '@/lib/session/service';
+
+/** The session for a page, or the not-found page (absent, another organisation's, or not a UUID). */
+export async function loadSessionForPage(actor: Actor, id: string) {
+  if (!z.uuid().safeParse(id).success) notFound();
+  try {
+    return await loadSessionFor(db(), actor, id);
+  } catch (e) {
+    if (e instanceof AppError && e.status === 404) notFound();
+    throw e;
+  }
+}

@@ -1,0 +1,1 @@
+export { openSessionInput } from '@/lib/session/commands';

@@ -1,0 +1,38 @@
+import type { Role } from '@/db/schema';
+import { AppError } from '@/lib/errors';
+import type { Actor } from './actor';
+
+/** What each role may do; the one table every route, page and socket handler consults. */
+const permissions = {
+  'session:open': ['technician'],
+  'session:view': ['technician', 'expert', 'reviewer', 'admin'],
+  'reading:submit': ['technician'],
+  'fleet:read': ['technician', 'expert', 'reviewer', 'admin'],
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Permission = keyof typeof permissions;
+
+export function can(actor: Actor, permission: Permission): boolean {
+  return (permissions[permission] as readonly Role[]).includes(actor.role);
+}
+
+/** Throws 403 naming the role when the actor may not do this. */
+export function assertCan(actor: Actor, permission: Permission): void {
+  if (!can(actor, permission)) {
+    throw new AppError(`forbidden:${permission.split(':')[0]}`, `A ${actor.role} may not ${describe[permission]}`);
+  }
+}
+
+const describe: Record<Permission, string> = {
+  'session:open': 'open a leveling session',
+  'session:view': 'view this session',
+  'reading:submit': 'record readings',
+  'fleet:read': 'read the fleet',
+};
+
+/** Records of another organisation do not exist for the caller: 404, so their existence does not leak. */
+export function assertSameOrganisation(actor: Actor, organisationId: string | null | undefined, what: string): void {
+  if (!organisationId || organisationId !== actor.organisationId) {
+    throw new AppError(`not_found:${what}`, `No such ${what}`);
+  }
+}

@@ -1,0 +1,49 @@
+import type { Server as HttpServer } from 'node:http';
+import { parse as parseCookies } from 'cookie';
+import { getToken } from 'next-auth/jwt';
+import { Server } from 'socket.io';
+import { actorFromUserId } from '@/lib/auth/actor';
+import { setBroadcaster } from './bus';
+import { SOCKET_PATH, sessionRoom } from './contract';
+import type { IoServer, RealtimeDeps } from './handlers/define';
+import { readingSubmitHandler } from './handlers/reading-submit';
+import { sessionJoinHandler, sessionLeaveHandler } from './handlers/session-join';
+
+const handlers = [sessionJoinHandler, sessionLeaveHandler, readingSubmitHandler];
+
+/**
+ * Attaches Levelwire's socket.io server to an HTTP server. The handshake must carry a valid next-auth
+ * session cookie of an active user; every command is then checked by its handler.
+ */
+export function attachRealtime(httpServer: HttpServer, deps: RealtimeDeps & { secret: string }) {
+  const io: IoServer = new Server(httpServer, { path: SOCKET_PATH, serveClient: false, connectionStateRecovery: undefined });
+
+  io.use(async (socket, next) => {
+    try {
+      const cookieHeader = socket.handshake.headers.cookie ?? '';
+      const cookies = parseCookies(cookieHeader) as Record<string, string>;
+      const token = await getToken({ req: { headers: socket.handshake.headers, cookies } as never, secret: deps.secret });
+      const actor = await actorFromUserId(deps.db, token?.sub);
+      if (!actor) return next(new Error('unauthorized: sign in first'));
+      socket.data.actor = actor;
+      socket.data.protocol = Number(socket.handshake.auth?.protocol ?? 0);
+      next();
+    } catch {
+      next(new Error('unauthorized: sign in first'));
+    }
+  });
+
+  io.on('connection', (socket) => {
+    for (const attach of handlers) attach({ socket, io, deps });
+  });
+
+  setBroadcaster((event) => io.to(sessionRoom(event.sessionId)).emit(event.type, event));
+
+  return {
+    io,
+    async close() {
+      setBroadcaster(undefined);
+      await new Promise<void>((resolve) => io.close(() => resolve()));
+    },
+  };
+}

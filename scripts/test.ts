@@ -1,0 +1,110 @@
+// `npm test`: a throwaway PostgreSQL, a production build served on :3100, then every test layer.
+// Ends with one plain line, `N passed, N failed`, totalled over the layers (CI reads that line).
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
+import { createDb } from '../db/client';
+import { seedDemo } from '../db/seed';
+import { ensureChromium } from './apt';
+import { buildIfStale, log, prepareDatabase } from './setup';
+
+type Tally = { layer: string; passed: number; failed: number; skipped: number };
+const only = process.argv.includes('--only') ? process.argv[process.argv.indexOf('--only') + 1] : undefined;
+const wants = (layer: string) => !only || only === layer;
+const PORT = 3100;
+const BASE_URL = `http://127.0.0.1:${PORT}`;
+const SECRET = 'levelwire-test-secret-0123456789abcdef';
+const tallies: Tally[] = [];
+const reports = '.data/test-reports';
+rmSync(reports, { recursive: true, force: true });
+mkdirSync(reports, { recursive: true });
+
+function readJson<T>(file: string): T | null {
+  try {
+    return JSON.parse(readFileSync(file, 'utf8')) as T;
+  } catch {
+    return null;
+  }
+}
+
+/** Runs vitest for one project; counts from its JSON report (a crash without a report counts as one failure). */
+function runVitest(project: string, env: Record<string, string>): void {
+  const out = `${reports}/${project}.json`;
+  const res = spawnSync('npx', ['vitest', 'run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${out}`], {
+    stdio: 'inherit',
+    env: { ...process.env, ...env },
+  });
+  const r = readJson<{ numPassedTests: number; numFailedTests: number; numPendingTests: number; numTodoTests: number }>(out);
+  if (!r) tallies.push({ layer: project, passed: 0, failed: 1, skipped: 0 });
+  else {
+    const crashed = res.status !== 0 && r.numFailedTests === 0 ? 1 : 0;
+    tallies.push({ layer: project, passed: r.numPassedTests, failed: r.numFailedTests + crashed, skipped: r.numPendingTests + r.numTodoTests });
+  }
+}
+
+function runPlaywright(env: Record<string, string>): void {
+  const out = `${reports}/e2e.json`;
+  const res = spawnSync('npx', ['playwright', 'test', '--config', 'tests/e2e/playwright.config.ts'], {
+    stdio: 'inherit',
+    env: { ...process.env, ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: out },
+  });
+  const r = readJson<{ stats: { expected: number; unexpected: number; flaky: number; skipped: number } }>(out);
+  if (!r) tallies.push({ layer: 'e2e', passed: 0, failed: 1, skipped: 0 });
+  else {
+    const crashed = res.status !== 0 && r.stats.unexpected === 0 ? 1 : 0;
+    tallies.push({ layer: 'e2e', passed: r.stats.expected + r.stats.flaky, failed: r.stats.unexpected + crashed, skipped: r.stats.skipped });
+  }
+}
+
+async function waitForHealth(server: ChildProcess): Promise<void> {
+  const deadline = Date.now() + 60_000;
+  while (Date.now() < deadline) {
+    if (server.exitCode !== null) throw new Error(`the server exited with code ${server.exitCode}`);
+    try {
+      const res = await fetch(`${BASE_URL}/api/health`);
+      if (res.ok) return;
+    } catch {
+      /* not up yet */
+    }
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  throw new Error('the server did not answer /api/health within 60 s');
+}
+
+const t0 = performance.now();
+let server: ChildProcess | undefined;
+let cluster: Awaited<ReturnType<typeof prepareDatabase>> | undefined;
+let setupFailed = false;
+try {
+  if (wants('unit')) runVitest('unit', {});
+  if (wants('integration') || wants('e2e')) {
+    cluster = await prepareDatabase({ name: 'pg-test', port: 54339, database: 'levelwire_test', fresh: true });
+    const db = createDb(cluster.url, 2);
+    await seedDemo(db);
+    await db.$client.end();
+    buildIfStale();
+    const chromium = wants('e2e') ? ensureChromium() : '';
+    server = spawn(process.execPath, ['dist/server.js'], {
+      stdio: ['ignore', 'inherit', 'inherit'],
+      env: { ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: cluster.url, PORT: String(PORT), HOST: '127.0.0.1', NEXTAUTH_URL: BASE_URL, NEXTAUTH_SECRET: SECRET },
+    });
+    await waitForHealth(server);
+    const env = { DATABASE_URL: cluster.url, BASE_URL, NEXTAUTH_SECRET: SECRET, CHROMIUM_PATH: chromium };
+    if (wants('integration')) runVitest('integration', env);
+    if (wants('e2e') && existsSync('tests/e2e/playwright.config.ts')) runPlaywright(env);
+  }
+} catch (e) {
+  setupFailed = true;
+  console.error('[levelwire] test set-up failed:', e instanceof Error ? e.message : e);
+} finally {
+  if (server && server.exitCode === null) {
+    server.kill('SIGTERM');
+    await new Promise((r) => server!.once('exit', r));
+  }
+  cluster?.stop();
+}
+
+const total = tallies.reduce((a, t) => ({ passed: a.passed + t.passed, failed: a.failed + t.failed, skipped: a.skipped + t.skipped }), { passed: 0, failed: setupFailed ? 1 : 0, skipped: 0 });
+for (const t of tallies) log(`${t.layer.padEnd(12)} ${t.passed} passed, ${t.failed} failed${t.skipped ? `, ${t.skipped} skipped` : ''}`);
+log(`all layers in ${Math.round((performance.now() - t0) / 1000)} s`);
+console.log(`${total.passed} passed, ${total.failed} failed${total.skipped ? `, ${total.skipped} skipped` : ''}`);
+process.exit(total.failed > 0 || tallies.length === 0 ? 1 : 0);
