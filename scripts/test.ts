@@ -2,6 +2,7 @@
 // Ends with one plain line, `N passed, N failed`, totalled over the layers (CI reads that line).
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
+import path from 'node:path';
 import { createDb } from '../db/client';
 import { seedDemo } from '../db/seed';
 import { ensureChromium } from './apt';
@@ -11,7 +12,7 @@ type Tally = { layer: string; passed: number; failed: number; skipped: number };
 const only = process.argv.includes('--only') ? process.argv[process.argv.indexOf('--only') + 1] : undefined;
 const wants = (layer: string) => !only || only === layer;
 const PORT = 3100;
-const BASE_URL = `http://127.0.0.1:${PORT}`;
+const APP_URL = `http://127.0.0.1:${PORT}`;
 const SECRET = 'levelwire-test-secret-0123456789abcdef';
 const tallies: Tally[] = [];
 const reports = '.data/test-reports';
@@ -45,7 +46,7 @@ function runPlaywright(env: Record<string, string>): void {
   const out = `${reports}/e2e.json`;
   const res = spawnSync('npx', ['playwright', 'test', '--config', 'tests/e2e/playwright.config.ts'], {
     stdio: 'inherit',
-    env: { ...process.env, ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: out },
+    env: { ...process.env, ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: path.resolve(out) },
   });
   const r = readJson<{ stats: { expected: number; unexpected: number; flaky: number; skipped: number } }>(out);
   if (!r) tallies.push({ layer: 'e2e', passed: 0, failed: 1, skipped: 0 });
@@ -60,7 +61,7 @@ async function waitForHealth(server: ChildProcess): Promise<void> {
   while (Date.now() < deadline) {
     if (server.exitCode !== null) throw new Error(`the server exited with code ${server.exitCode}`);
     try {
-      const res = await fetch(`${BASE_URL}/api/health`);
+      const res = await fetch(`${APP_URL}/api/health`);
       if (res.ok) return;
     } catch {
       /* not up yet */
@@ -85,10 +86,10 @@ try {
     const chromium = wants('e2e') ? ensureChromium() : '';
     server = spawn(process.execPath, ['dist/server.js'], {
       stdio: ['ignore', 'inherit', 'inherit'],
-      env: { ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: cluster.url, PORT: String(PORT), HOST: '127.0.0.1', NEXTAUTH_URL: BASE_URL, NEXTAUTH_SECRET: SECRET },
+      env: { ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: cluster.url, PORT: String(PORT), HOST: '127.0.0.1', NEXTAUTH_URL: APP_URL, NEXTAUTH_SECRET: SECRET },
     });
     await waitForHealth(server);
-    const env = { DATABASE_URL: cluster.url, BASE_URL, NEXTAUTH_SECRET: SECRET, CHROMIUM_PATH: chromium };
+    const env = { DATABASE_URL: cluster.url, APP_URL, NEXTAUTH_SECRET: SECRET, CHROMIUM_PATH: chromium };
     if (wants('integration')) runVitest('integration', env);
     if (wants('e2e') && existsSync('tests/e2e/playwright.config.ts')) runPlaywright(env);
   }

@@ -1,7 +1,9 @@
 'use client';
 
 import { useState } from 'react';
+import { fromZod } from '@/lib/errors';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
+import { levelReadingInput } from '@/lib/session/commands';
 import { LinkBadge } from '@/components/session/link-badge';
 import { useSessionLog } from '@/components/session/use-session-log';
 import { Button } from '@/components/ui/button';
@@ -32,8 +34,13 @@ export function FieldView({ sessionId, travelYMm, unitSystem, machineLabel }: Pr
       setStatus({ tone: 'error', text: 'divisions: tap the vial or type where the bubble sits' });
       return;
     }
+    const parsed = levelReadingInput.safeParse({ kind: 'level', axis, positionMm, divisions: value });
+    if (!parsed.success) {
+      setStatus({ tone: 'error', text: fromZod(parsed.error, 'reading').message });
+      return;
+    }
     setBusy(true);
-    const ack = await submitReading({ kind: 'level', axis, positionMm, divisions: value });
+    const ack = await submitReading(parsed.data);
     setBusy(false);
     if (ack.ok) {
       setStatus({ tone: 'ok', text: `Reading stored as #${ack.seq}` });

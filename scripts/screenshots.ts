@@ -1,0 +1,74 @@
+// Screenshots of the main screens against a running server (default http://127.0.0.1:3000, the `npm start` one):
+// `npx tsx scripts/screenshots.ts [url]` writes docs/screenshots/*.png and prints each page's first-load JS.
+import { mkdirSync } from 'node:fs';
+import { chromium, type Page } from 'playwright-core';
+import { DEMO_PASSWORD, DEMO_USERS } from '../db/seed';
+
+const base = process.argv[2] ?? 'http://127.0.0.1:3000';
+const out = 'docs/screenshots';
+mkdirSync(out, { recursive: true });
+
+const browser = await chromium.launch({
+  executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+  args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+});
+
+async function signIn(role: string, viewport: { width: number; height: number }): Promise<Page> {
+  const context = await browser.newContext({ viewport, baseURL: base });
+  const page = await context.newPage();
+  await page.goto('/sign-in');
+  await page.getByLabel('E-mail').fill(DEMO_USERS.find((u) => u.role === role)!.email);
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
+  return page;
+}
+
+/** Loads a path in a fresh page of the same context and sums the JavaScript it transferred (bytes on the wire). */
+async function firstLoadJs(page: Page, path: string): Promise<{ kB: number; three: boolean }> {
+  const p = await page.context().newPage();
+  const sizes: Promise<number>[] = [];
+  let three = false;
+  p.on('requestfinished', (req) => {
+    if (req.resourceType() !== 'script') return;
+    sizes.push(req.sizes().then((s) => s.responseBodySize));
+  });
+  p.on('response', async (res) => {
+    if (res.request().resourceType() === 'script' && /WebGLRenderer|three\.module/.test(await res.text().catch(() => ''))) three = true;
+  });
+  await p.goto(path, { waitUntil: 'networkidle' });
+  const total = (await Promise.all(sizes)).reduce((a, b) => a + b, 0);
+  await p.close();
+  return { kB: Math.round(total / 102.4) / 10, three };
+}
+
+const signInPage = await (await browser.newContext({ viewport: { width: 1280, height: 800 } })).newPage();
+await signInPage.goto(`${base}/sign-in`);
+await signInPage.screenshot({ path: `${out}/sign-in.png` });
+
+const tech = await signIn('technician', { width: 412, height: 915 });
+await tech.screenshot({ path: `${out}/start-phone.png`, fullPage: true });
+await tech.getByRole('button', { name: 'Start leveling' }).first().click();
+await tech.waitForURL(/\/field$/);
+const sessionPath = new URL(tech.url()).pathname.replace(/\/field$/, '');
+for (const [axis, station, div] of [['X', 'Front', '1.5'], ['X', 'Back', '-0.5'], ['Y', 'Middle', '-2']] as const) {
+  await tech.getByRole('button', { name: new RegExp(`^${axis} · `) }).click();
+  await tech.getByRole('button', { name: new RegExp(`^${station}`) }).click();
+  await tech.getByLabel('or type divisions').fill(div);
+  await tech.getByRole('button', { name: 'Record reading' }).click();
+  await tech.getByRole('status').filter({ hasText: 'Reading stored' }).waitFor();
+}
+await tech.getByRole('slider').click({ position: { x: 250, y: 40 } });
+await tech.screenshot({ path: `${out}/field-phone.png`, fullPage: true });
+
+const expert = await signIn('expert', { width: 1440, height: 900 });
+await expert.goto(`${base}${sessionPath}/coach`);
+await expert.locator('[data-link="live"]').waitFor();
+await expert.locator('canvas').waitFor();
+await expert.waitForTimeout(1500);
+await expert.screenshot({ path: `${out}/coach-desktop.png` });
+
+console.log('first-load JS (transferred):');
+console.log('  field view', await firstLoadJs(tech, `${sessionPath}/field`));
+console.log('  coach view', await firstLoadJs(expert, `${sessionPath}/coach`));
+await browser.close();

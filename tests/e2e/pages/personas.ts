@@ -1,0 +1,18 @@
+import type { Browser, BrowserContext, Page } from '@playwright/test';
+import { DEMO_PASSWORD, DEMO_USERS } from '../../../db/seed';
+
+export type Persona = (typeof DEMO_USERS)[number]['role'];
+
+export const emailOf = (role: Persona) => DEMO_USERS.find((u) => u.role === role)!.email;
+
+/** A fresh browser context signed in through the sign-in page as one of the demo personas. */
+export async function signedIn(browser: Browser, role: Persona, viewport?: { width: number; height: number }): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext(viewport ? { viewport } : {});
+  const page = await context.newPage();
+  await page.goto('/sign-in');
+  await page.getByLabel('E-mail').fill(emailOf(role));
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+  return { context, page };
+}
