@@ -38,6 +38,7 @@ export {
   DEFAULT_TRAVEL_TOLERANCE_URAD,
   analyzeTravel,
   bowCorrection,
+  bowDepartureUm,
   slopeTrendUradPerM,
   twistCorrection,
   type TravelAnalysis,

@@ -3,7 +3,7 @@ import type { Screw } from './footprint';
 import { DEFAULT_TOLERANCES, stageScrews, type AdjustStage, type Tolerances } from './stages';
 import { analyzeSweep } from './sweep';
 import { incrementUm, screwMove, type ScrewMove } from './tilt-solve';
-import { analyzeTravel, bowCorrection, twistCorrection, type TravelPoint } from './travel';
+import { analyzeTravel, bowCorrection, bowDepartureUm, twistCorrection, type TravelPoint } from './travel';
 
 /**
  * The manual rule of thumb, as practised, for comparison with the recommender: one correction per round.
@@ -50,7 +50,7 @@ export function ruleOfThumbMoves(input: {
   const bow = analyzeTravel(points, tolerances.bowUrad);
   const correction = bowCorrection(points);
   if (bow.withinTolerance || !correction) return [];
-  const departureUm = (bow.changeUrad * bow.spanMm) / 8 / 1000;
+  const departureUm = bowDepartureUm(bow.changeUrad, bow.spanMm);
   return move(allowed, correction.middleScrews === 'raise' ? departureUm : -departureUm);
 }
 

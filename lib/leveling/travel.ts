@@ -49,6 +49,11 @@ export function analyzeTravel(
   };
 }
 
+/** Mid-span departure from the chord in µm for a constant-curvature bow: slope change (µrad) × span (mm) / 8. */
+export function bowDepartureUm(changeUrad: number, spanMm: number): number {
+  return (requireFinite('slope change', changeUrad) * requireFinite('span', spanMm)) / 8 / 1000;
+}
+
 /** Least-squares rate of change of slope along the travel, µrad per metre (positive: slope rises toward +pos). */
 export function slopeTrendUradPerM(points: TravelPoint[]): number {
   const sorted = checkedPoints(points);
