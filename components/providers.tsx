@@ -1,14 +1,9 @@
 'use client';
 
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { SessionProvider } from 'next-auth/react';
 import { useState, type ReactNode } from 'react';
 
 export function Providers({ children }: { children: ReactNode }) {
   const [client] = useState(() => new QueryClient({ defaultOptions: { queries: { staleTime: 5_000, retry: 1 } } }));
-  return (
-    <SessionProvider refetchOnWindowFocus={false}>
-      <QueryClientProvider client={client}>{children}</QueryClientProvider>
-    </SessionProvider>
-  );
+  return <QueryClientProvider client={client}>{children}</QueryClientProvider>;
 }

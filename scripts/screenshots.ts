@@ -1,6 +1,7 @@
 // Screenshots of the main screens against a running server (default http://127.0.0.1:3000, the `npm start` one):
 // `npx tsx scripts/screenshots.ts [url]` writes docs/screenshots/*.png and prints each page's first-load JS.
 import { mkdirSync } from 'node:fs';
+import { gzipSync } from 'node:zlib';
 import { chromium, type Page } from 'playwright-core';
 import { DEMO_PASSWORD, DEMO_USERS } from '../db/seed';
 
@@ -24,22 +25,18 @@ async function signIn(role: string, viewport: { width: number; height: number })
   return page;
 }
 
-/** Loads a path in a fresh page of the same context and sums the JavaScript it transferred (bytes on the wire). */
-async function firstLoadJs(page: Page, path: string): Promise<{ kB: number; three: boolean }> {
+/** Loads a path in a fresh page of the same context and sums its JavaScript, gzipped (level 9) as it would travel. */
+async function firstLoadJs(page: Page, path: string): Promise<{ gzipKB: number; scripts: number; three: boolean }> {
   const p = await page.context().newPage();
-  const sizes: Promise<number>[] = [];
-  let three = false;
-  p.on('requestfinished', (req) => {
-    if (req.resourceType() !== 'script') return;
-    sizes.push(req.sizes().then((s) => s.responseBodySize));
-  });
-  p.on('response', async (res) => {
-    if (res.request().resourceType() === 'script' && /WebGLRenderer|three\.module/.test(await res.text().catch(() => ''))) three = true;
+  const bodies: Promise<Buffer | null>[] = [];
+  p.on('response', (res) => {
+    if (res.request().resourceType() === 'script') bodies.push(res.body().catch(() => null));
   });
   await p.goto(path, { waitUntil: 'networkidle' });
-  const total = (await Promise.all(sizes)).reduce((a, b) => a + b, 0);
+  const scripts = (await Promise.all(bodies)).filter((b): b is Buffer => b !== null);
   await p.close();
-  return { kB: Math.round(total / 102.4) / 10, three };
+  const gzip = scripts.reduce((a, b) => a + gzipSync(b, { level: 9 }).length, 0);
+  return { gzipKB: Math.round(gzip / 102.4) / 10, scripts: scripts.length, three: scripts.some((b) => b.includes('WebGLRenderer')) };
 }
 
 const signInPage = await (await browser.newContext({ viewport: { width: 1280, height: 800 } })).newPage();
@@ -47,6 +44,7 @@ await signInPage.goto(`${base}/sign-in`);
 await signInPage.screenshot({ path: `${out}/sign-in.png` });
 
 const tech = await signIn('technician', { width: 412, height: 915 });
+await tech.getByRole('heading', { name: 'Machines' }).waitFor();
 await tech.screenshot({ path: `${out}/start-phone.png`, fullPage: true });
 await tech.getByRole('button', { name: 'Start leveling' }).first().click();
 await tech.waitForURL(/\/field$/);
@@ -68,7 +66,7 @@ await expert.locator('canvas').waitFor();
 await expert.waitForTimeout(1500);
 await expert.screenshot({ path: `${out}/coach-desktop.png` });
 
-console.log('first-load JS (transferred):');
+console.log('JavaScript each page loads, until the network is idle (gzip -9):');
 console.log('  field view', await firstLoadJs(tech, `${sessionPath}/field`));
 console.log('  coach view', await firstLoadJs(expert, `${sessionPath}/coach`));
 await browser.close();

@@ -1,5 +1,5 @@
 // Shared steps of `npm start`, `npm run dev` and `npm test`: database up and migrated, build when stale.
-import { execSync } from 'node:child_process';
+import { execSync, type ChildProcess } from 'node:child_process';
 import { createHash, randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
@@ -55,4 +55,19 @@ export function localSecret(): string {
   mkdirSync('.data', { recursive: true });
   if (!existsSync(file)) writeFileSync(file, randomBytes(32).toString('hex'), { mode: 0o600 });
   return readFileSync(file, 'utf8').trim();
+}
+
+/** Waits until the server answers /api/health, failing early if it exits. */
+export async function waitForHealth(baseUrl: string, server: ChildProcess, timeoutMs = 60_000): Promise<void> {
+  const deadline = Date.now() + timeoutMs;
+  while (Date.now() < deadline) {
+    if (server.exitCode !== null) throw new Error(`the server exited with code ${server.exitCode}`);
+    try {
+      if ((await fetch(`${baseUrl}/api/health`)).ok) return;
+    } catch {
+      /* not listening yet */
+    }
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  throw new Error(`the server did not answer ${baseUrl}/api/health within ${timeoutMs / 1000} s`);
 }

@@ -2,7 +2,7 @@
 import { spawn } from 'node:child_process';
 import { createDb } from '../db/client';
 import { DEMO_PASSWORD, DEMO_USERS, seedDemo } from '../db/seed';
-import { buildIfStale, localSecret, log, prepareDatabase } from './setup';
+import { buildIfStale, localSecret, log, prepareDatabase, waitForHealth } from './setup';
 
 const t0 = performance.now();
 const port = Number(process.env.PORT ?? 3000);
@@ -27,7 +27,8 @@ const server = spawn(process.execPath, ['dist/server.js'], {
   },
 });
 
-server.once('spawn', () => {
+server.once('spawn', async () => {
+  await waitForHealth(url, server);
   log(`ready in ${Math.round((performance.now() - t0) / 1000)} s: open ${url}`);
   log(`demo sign-ins (password "${DEMO_PASSWORD}"):`);
   for (const u of DEMO_USERS) log(`  ${u.role.padEnd(10)} ${u.email}  (${u.name})`);

@@ -6,7 +6,7 @@ import path from 'node:path';
 import { createDb } from '../db/client';
 import { seedDemo } from '../db/seed';
 import { ensureChromium } from './apt';
-import { buildIfStale, log, prepareDatabase } from './setup';
+import { buildIfStale, log, prepareDatabase, waitForHealth } from './setup';
 
 type Tally = { layer: string; passed: number; failed: number; skipped: number };
 const only = process.argv.includes('--only') ? process.argv[process.argv.indexOf('--only') + 1] : undefined;
@@ -56,21 +56,6 @@ function runPlaywright(env: Record<string, string>): void {
   }
 }
 
-async function waitForHealth(server: ChildProcess): Promise<void> {
-  const deadline = Date.now() + 60_000;
-  while (Date.now() < deadline) {
-    if (server.exitCode !== null) throw new Error(`the server exited with code ${server.exitCode}`);
-    try {
-      const res = await fetch(`${APP_URL}/api/health`);
-      if (res.ok) return;
-    } catch {
-      /* not up yet */
-    }
-    await new Promise((r) => setTimeout(r, 250));
-  }
-  throw new Error('the server did not answer /api/health within 60 s');
-}
-
 const t0 = performance.now();
 let server: ChildProcess | undefined;
 let cluster: Awaited<ReturnType<typeof prepareDatabase>> | undefined;
@@ -88,7 +73,7 @@ try {
       stdio: ['ignore', 'inherit', 'inherit'],
       env: { ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: cluster.url, PORT: String(PORT), HOST: '127.0.0.1', NEXTAUTH_URL: APP_URL, NEXTAUTH_SECRET: SECRET },
     });
-    await waitForHealth(server);
+    await waitForHealth(APP_URL, server);
     const env = { DATABASE_URL: cluster.url, APP_URL, NEXTAUTH_SECRET: SECRET, CHROMIUM_PATH: chromium };
     if (wants('integration')) runVitest('integration', env);
     if (wants('e2e') && existsSync('tests/e2e/playwright.config.ts')) runPlaywright(env);

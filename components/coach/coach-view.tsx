@@ -27,7 +27,10 @@ export function CoachView({ sessionId, screws, unitSystem, machineLabel, technic
           </div>
           <LinkBadge link={link} />
         </div>
-        <div className="h-[60vh] min-h-80 overflow-hidden rounded-2xl border-2 border-ink bg-[#e9e6dc]">
+        <div className="relative h-[60vh] min-h-80 overflow-hidden rounded-2xl border-2 border-ink bg-[#e9e6dc]">
+          <p className="pointer-events-none absolute left-3 top-2 z-10 rounded bg-paper/85 px-2 py-1 text-sm">
+            Heights ×{exaggeration.toLocaleString('en')} · black bar = front (operator side) · +X to the right · green block = the level · drag to turn
+          </p>
           <TiltView screws={screws} slopeXUrad={state.slopeXUrad ?? 0} slopeYUrad={state.slopeYUrad ?? 0} exaggeration={exaggeration} levelAt={levelAt} />
         </div>
         <label className="flex flex-wrap items-center gap-3 font-semibold">
@@ -45,7 +48,7 @@ export function CoachView({ sessionId, screws, unitSystem, machineLabel, technic
           ] as const).map(([label, v]) => (
             <div key={label} className="rounded-xl bg-steel p-3 text-paper">
               <p className="text-sm">{label}</p>
-              <p className="tabular text-xl font-bold" data-testid={label.startsWith('Slope X') ? 'slope-x' : 'slope-y'}>
+              <p className="tabular whitespace-nowrap text-lg font-bold" data-testid={label.startsWith('Slope X') ? 'slope-x' : 'slope-y'}>
                 {v === null ? '—' : formatSlope(v, unitSystem)}
               </p>
             </div>

@@ -50,6 +50,7 @@ export function FieldView({ sessionId, travelYMm, unitSystem, machineLabel }: Pr
   }
 
   const recent = state.readings.slice(-8).reverse();
+  const stationName = (mm: number) => stations.find((s) => s.mm === mm)?.label ?? 'Other';
   return (
     <main className="mx-auto grid max-w-3xl gap-5 p-4">
       <div className="flex flex-wrap items-center justify-between gap-2">
@@ -60,7 +61,7 @@ export function FieldView({ sessionId, travelYMm, unitSystem, machineLabel }: Pr
         <LinkBadge link={link} />
       </div>
 
-      <SafetyNote />
+      <SafetyNote collapsible />
 
       <section aria-labelledby="reading-h" className="grid gap-4 rounded-2xl border-2 border-ink bg-card p-4">
         <h2 id="reading-h" className="text-xl font-bold">
@@ -77,7 +78,8 @@ export function FieldView({ sessionId, travelYMm, unitSystem, machineLabel }: Pr
                 onClick={() => setAxis(a)}
                 className={`min-h-14 rounded-lg border-2 border-ink text-lg font-bold ${axis === a ? 'bg-steel text-paper' : 'bg-card'}`}
               >
-                {a === 'x' ? 'X · across (marked end right)' : 'Y · along (marked end back)'}
+                {a === 'x' ? 'X · across' : 'Y · along'}
+                <span className="block text-sm font-normal">{a === 'x' ? 'marked end to the right' : 'marked end to the back'}</span>
               </button>
             ))}
           </div>
@@ -130,9 +132,15 @@ export function FieldView({ sessionId, travelYMm, unitSystem, machineLabel }: Pr
         </h2>
         <ol className="mt-2 grid gap-1" data-testid="reading-log">
           {recent.map((r) => (
-            <li key={r.seq} className="flex justify-between rounded-lg bg-card px-3 py-2 tabular">
-              <span>#{r.seq} {r.axis.toUpperCase()} @ {r.positionMm} mm</span>
-              <span>{r.divisions > 0 ? '+' : ''}{r.divisions} div = {formatSlope(r.slopeUrad, unitSystem)}</span>
+            <li key={r.seq} className="grid grid-cols-[auto_1fr] gap-x-3 rounded-lg bg-card px-3 py-2">
+              <span className="tabular row-span-2 self-center text-ink-soft">#{r.seq}</span>
+              <span className="font-semibold">
+                {r.axis.toUpperCase()} · {stationName(r.positionMm)} <span className="tabular font-normal text-ink-soft">({r.positionMm} mm)</span>
+              </span>
+              <span className="tabular">
+                {r.divisions > 0 ? '+' : ''}
+                {r.divisions} div → {formatSlope(r.slopeUrad, unitSystem)}
+              </span>
             </li>
           ))}
           {recent.length === 0 && <li className="text-ink-soft">No readings yet.</li>}

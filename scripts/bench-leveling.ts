@@ -1,0 +1,122 @@
+/**
+ * Levelwire leveling convergence benchmark: seeded virtual machines leveled by the manual rule of thumb and by the
+ * learning recommender. Usage: npm run bench:leveling -- [--machines 1000] [--seed 1]
+ */
+import { ADJUST_STAGES, createVirtualMachine, runVirtualSession, type Method, type StageOutcome } from '@/lib/leveling';
+
+const MAX_ROUNDS = 12;
+/** Machines run before timing starts, so the figures are not the JIT compiler's first pass (seeds below the first). */
+const WARM_UP_MACHINES = 50;
+
+function flag(name: string, fallback: number): number {
+  const at = process.argv.indexOf(`--${name}`);
+  const value = at >= 0 ? Number(process.argv[at + 1]) : fallback;
+  if (!Number.isInteger(value) || value < 1) throw new Error(`--${name} must be a positive whole number`);
+  return value;
+}
+
+/** Nearest-rank percentile of a non-empty list. */
+function percentile(values: number[], p: number): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.max(0, Math.ceil(p * sorted.length) - 1)]!;
+}
+
+const ms = (value: number) => `${value.toFixed(3)} ms`;
+const share = (count: number, total: number) => `${((100 * count) / total).toFixed(1)} %`;
+
+interface Row {
+  measure: string;
+  outcomes: StageOutcome[];
+}
+
+function rows(sessions: StageOutcome[][]): Row[] {
+  const byStage = ADJUST_STAGES.map((stage) => ({
+    measure: stage,
+    outcomes: sessions.map((stages) => stages.find((s) => s.stage === stage)!),
+  }));
+  const whole = sessions.map(
+    (stages): StageOutcome => ({
+      stage: 'spindle-sweep',
+      rounds: stages.reduce((sum, s) => sum + s.rounds, 0),
+      readings: stages.reduce((sum, s) => sum + s.readings, 0),
+      converged: stages.every((s) => s.converged),
+    }),
+  );
+  return [...byStage, { measure: 'all stages', outcomes: whole }];
+}
+
+function tableLine(method: Method, row: Row, withinRounds: number): string {
+  const rounds = row.outcomes.map((o) => o.rounds);
+  const readings = row.outcomes.map((o) => o.readings);
+  const within = row.outcomes.filter((o) => o.converged && o.rounds <= withinRounds).length;
+  const never = row.outcomes.filter((o) => !o.converged).length;
+  const n = row.outcomes.length;
+  return `| ${method} | ${row.measure} | ${percentile(rounds, 0.5)} | ${percentile(rounds, 0.95)} | ${Math.max(...rounds)} | ${percentile(readings, 0.5)} | ${percentile(readings, 0.95)} | ${Math.max(...readings)} | ${share(within, n)} | ${share(never, n)} |`;
+}
+
+function main(): void {
+  const machines = flag('machines', 1000);
+  const firstSeed = flag('seed', 1);
+  const started = performance.now();
+  const methods: Method[] = ['rule-of-thumb', 'recommender'];
+  methods.forEach((method) => {
+    for (let i = 1; i <= WARM_UP_MACHINES; i++) runVirtualSession({ machine: createVirtualMachine({ seed: -i }), method });
+  });
+  const results = methods.map((method) => {
+    const sessions: StageOutcome[][] = [];
+    const timesMs: number[] = [];
+    for (let seed = firstSeed; seed < firstSeed + machines; seed++) {
+      const run = runVirtualSession({
+        machine: createVirtualMachine({ seed }),
+        method,
+        maxRounds: MAX_ROUNDS,
+        clock: () => performance.now(),
+      });
+      sessions.push(run.stages);
+      timesMs.push(...run.recommendationMs);
+    }
+    return { method, rows: rows(sessions), timesMs };
+  });
+
+  const lines = [
+    `Levelwire leveling convergence: ${machines} virtual machines (seeds ${firstSeed} to ${firstSeed + machines - 1}), at most ${MAX_ROUNDS} rounds a stage; a stage that never converged counts ${MAX_ROUNDS} rounds.`,
+    '',
+    '| method | measure | rounds p50 | rounds p95 | rounds max | readings p50 | readings p95 | readings max | within 3 rounds | never converged |',
+    '|---|---|---|---|---|---|---|---|---|---|',
+    ...results.flatMap((r) => r.rows.map((row) => tableLine(r.method, row, 3))),
+    '',
+    '| method | decisions | time per decision median | p95 | p99 | max | under 1 ms |',
+    '|---|---|---|---|---|---|---|',
+    ...results.map(
+      (r) =>
+        `| ${r.method} | ${r.timesMs.length} | ${ms(percentile(r.timesMs, 0.5))} | ${ms(percentile(r.timesMs, 0.95))} | ${ms(percentile(r.timesMs, 0.99))} | ${ms(Math.max(...r.timesMs))} | ${share(r.timesMs.filter((t) => t < 1).length, r.timesMs.length)} |`,
+    ),
+    '',
+    ...targetLines(results),
+    '',
+    `Finished in ${((performance.now() - started) / 1000).toFixed(1)} s on Node ${process.version}.`,
+  ];
+  console.log(lines.join('\n'));
+}
+
+function targetLines(results: { method: Method; rows: Row[]; timesMs: number[] }[]): string[] {
+  const [manual, recommender] = results;
+  if (!manual || !recommender) return [];
+  const median = (row: Row) => percentile(row.outcomes.map((o) => o.rounds), 0.5);
+  const p95 = (row: Row) => percentile(row.outcomes.map((o) => o.rounds), 0.95);
+  const verdict = (met: boolean) => (met ? 'met' : 'NOT met');
+  const perMeasure = recommender.rows.filter((row) => row.measure !== 'all stages');
+  return [
+    'Targets (per measure; the whole job for information):',
+    ...recommender.rows.map((row, i) => {
+      const manualMedian = median(manual.rows[i]!);
+      const halfMedian = `median ${median(row)} against the rule of thumb's ${manualMedian} (target at most half: ${verdict(median(row) <= manualMedian / 2)})`;
+      return perMeasure.includes(row)
+        ? `- ${row.measure}: recommender p95 ${p95(row)} rounds (target at most 3: ${verdict(p95(row) <= 3)}); ${halfMedian}`
+        : `- ${row.measure}: recommender p95 ${p95(row)} rounds; ${halfMedian}`;
+    }),
+    `- time per recommendation: median ${ms(percentile(recommender.timesMs, 0.5))}, max ${ms(Math.max(...recommender.timesMs))} (target under 1 ms each: ${verdict(Math.max(...recommender.timesMs) < 1)})`,
+  ];
+}
+
+main();
