@@ -66,27 +66,31 @@ interface Row {
   h: number[];
   valueUrad: number;
   sigmaUrad: number;
-  movedUm: number[];
+  /** State change in µrad the moves done before this reading made, by the response. */
+  shiftUrad: number[];
   round: number;
 }
 
-function levelRow(reading: LevelReading, travelMm: number): Omit<Row, 'movedUm' | 'round'> {
+/** Where a reading sits in the session: the state shift the moves before it made, and its round. */
+type Placement = Pick<Row, 'shiftUrad' | 'round'>;
+
+function levelRow(reading: LevelReading, travelMm: number, { shiftUrad, round }: Placement): Row {
   requireFinite('reading slope', reading.slopeUrad);
   const xMm = requireFinite('reading x', reading.xMm);
   const yMm = requireFinite('reading y', reading.yMm);
   const sigmaUrad = requirePositive('reading sigma', reading.sigmaUrad ?? DEFAULT_LEVEL_SIGMA_URAD, 'bad-tolerance');
   const h =
     reading.axis === 'x' ? [1, 0, yMm / travelMm, 0, 0, 0] : [0, 1, xMm / travelMm, yMm / travelMm, 0, 0];
-  return { h, valueUrad: reading.slopeUrad, sigmaUrad };
+  return { h, valueUrad: reading.slopeUrad, sigmaUrad, shiftUrad, round };
 }
 
-function sweepRows(reading: SweepReading): Omit<Row, 'movedUm' | 'round'>[] {
+function sweepRows(reading: SweepReading, { shiftUrad, round }: Placement): Row[] {
   const sweep = analyzeSweep(reading);
   const sigmaUm = requirePositive('indicator sigma', reading.sigmaUm ?? DEFAULT_INDICATOR_SIGMA_UM, 'bad-tolerance');
   const sigmaUrad = (Math.SQRT2 * sigmaUm * 1000) / reading.diameterMm;
   return [
-    { h: [0, 0, 0, 0, 1, 0], valueUrad: sweep.xUrad, sigmaUrad },
-    { h: [0, 0, 0, 0, 0, 1], valueUrad: sweep.yUrad, sigmaUrad },
+    { h: [0, 0, 0, 0, 1, 0], valueUrad: sweep.xUrad, sigmaUrad, shiftUrad, round },
+    { h: [0, 0, 0, 0, 0, 1], valueUrad: sweep.yUrad, sigmaUrad, shiftUrad, round },
   ];
 }
 
@@ -104,6 +108,7 @@ export function fitBaseModel(entries: BaseModelEntry[], options: BaseModelOption
   const travelMm = requirePositive('travel', options.travelMm, 'empty-travel');
   requirePositive('forgetting', forgetting, 'bad-tolerance');
   const movedUm = new Array<number>(screwIds.length).fill(0);
+  let shiftUrad = multiply(response, movedUm);
   const rows: Row[] = [];
   let round = 0;
   let readingCount = 0;
@@ -117,12 +122,13 @@ export function fitBaseModel(entries: BaseModelEntry[], options: BaseModelOption
       lastWasMove = true;
       continue;
     }
+    if (lastWasMove) shiftUrad = multiply(response, movedUm);
     lastWasMove = false;
     readingCount += readingsIn(entry);
-    const made = entry.kind === 'level' ? [levelRow(entry, travelMm)] : sweepRows(entry);
-    made.forEach((row) => rows.push({ ...row, movedUm: [...movedUm], round }));
+    if (entry.kind === 'level') rows.push(levelRow(entry, travelMm, { shiftUrad, round }));
+    else rows.push(...sweepRows(entry, { shiftUrad, round }));
   }
-  const values = rows.map((row) => row.valueUrad - dot(row.h, multiply(response, row.movedUm)));
+  const values = rows.map((row) => row.valueUrad - dot(row.h, row.shiftUrad));
   const weights = rows.map((row) => forgetting ** (round - row.round) / (row.sigmaUrad * row.sigmaUrad));
   const { n, rhs } = normalEquations(
     rows.map((row) => row.h),

@@ -12,11 +12,6 @@ export type Measure = (typeof MEASURES)[number];
  */
 export type BaseState = Record<Measure, number>;
 
-/** A state as a vector in MEASURES order. */
-export function stateToVector(state: BaseState): number[] {
-  return MEASURES.map((m) => state[m]);
-}
-
 /** A vector in MEASURES order as a state. */
 export function vectorToState(vector: number[]): BaseState {
   return Object.fromEntries(MEASURES.map((m, i) => [m, vector[i] ?? 0])) as BaseState;

@@ -51,7 +51,7 @@ export {
   type SweepAnalysis,
   type SweepReadings,
 } from './sweep';
-export { MEASURES, stateToVector, vectorToState, type BaseState, type Measure } from './base-state';
+export { MEASURES, vectorToState, type BaseState, type Measure } from './base-state';
 export {
   fitBaseModel,
   observedState,

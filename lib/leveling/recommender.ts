@@ -26,23 +26,31 @@ interface Group {
 
 const MOVE_SIZE_WEIGHT = 1e-8;
 
+/** Middle screws may go finer than the practical increment, halving it up to this many times, when it is too coarse. */
+const FINER_HALVINGS_FOR_MIDDLES = 2;
+
 /**
  * The next moves for a stage (µm, turns and degrees; negative lowers), rounded to the swing increment:
  * weighted least squares of the targeted measures (each over its tolerance) through the learned response;
- * corners raise only; middle screws move together. Screws left still are not listed.
+ * corners raise only; middle screws move together, in half or quarter increments when a whole one cannot
+ * land every measure within tolerance. Screws left still are not listed.
  */
 export function recommendMoves(input: RecommendInput): ScrewMove[] {
   const { stage, screws, state, response, tolerances = DEFAULT_TOLERANCES, incrementDeg = 5 } = input;
   const targets = Object.entries(stageTargets(stage, tolerances)) as [Measure, number][];
-  const groups = stageGroups(stage, screws, response, targets, incrementDeg);
-  if (groups.length === 0) return [];
-  const startUrad = targets.map(([measure, toleranceUrad]) => state[measure] / toleranceUrad);
-  const unrounded = solveGroups(groups, startUrad);
-  const raises = stageMovesEqually(stage) ? unrounded : raiseOnly(unrounded);
-  const best = bestRounding(groups, startUrad, raises);
-  return groups.flatMap((group, g) =>
+  const start = targets.map(([measure, toleranceUrad]) => state[measure] / toleranceUrad);
+  const equal = stageMovesEqually(stage);
+  const halvings = equal ? FINER_HALVINGS_FOR_MIDDLES : 0;
+  let plan: { groups: Group[]; raisesUm: number[] } = { groups: [], raisesUm: [] };
+  for (let k = 0; k <= halvings; k++) {
+    const groups = stageGroups(stage, screws, response, targets, incrementDeg / 2 ** k);
+    const unrounded = solveGroups(groups, start);
+    plan = { groups, raisesUm: bestRounding(groups, start, equal ? unrounded : raiseOnly(unrounded)) };
+    if (predicted(groups, start, plan.raisesUm).every((m) => Math.abs(m) <= TOLERANCE_MARGIN)) break;
+  }
+  return plan.groups.flatMap((group, g) =>
     group.screws
-      .map((screw) => screwMove(screw.id, best[g]!, screw.liftPerTurnMm))
+      .map((screw) => screwMove(screw.id, plan.raisesUm[g]!, screw.liftPerTurnMm))
       .filter((move) => move.raiseUm !== 0),
   );
 }
@@ -114,10 +122,14 @@ function bestRounding(groups: Group[], start: number[], raisesUm: number[]): num
 const TOLERANCE_MARGIN = 0.8;
 const EXCESS_WEIGHT = 100;
 
+/** Each targeted measure over its tolerance after the raises, by the response. */
+function predicted(groups: Group[], start: number[], raisesUm: number[]): number[] {
+  return start.map((s, m) => groups.reduce((acc, g, i) => acc + g.effect[m]! * raisesUm[i]!, s));
+}
+
 /** Sum of squared measures over tolerance, plus a steep charge for any beyond the margin. */
 function toleranceCost(groups: Group[], start: number[], raisesUm: number[]): number {
-  return start.reduce((sum, s, m) => {
-    const after = groups.reduce((acc, g, i) => acc + g.effect[m]! * raisesUm[i]!, s);
+  return predicted(groups, start, raisesUm).reduce((sum, after) => {
     const excess = Math.max(0, Math.abs(after) - TOLERANCE_MARGIN);
     return sum + after * after + EXCESS_WEIGHT * excess * excess;
   }, 0);
