@@ -1,4 +1,5 @@
 import { MEASURES, type BaseState, type Measure } from './base-state';
+import { requireFinite } from './errors';
 import type { Screw } from './footprint';
 import { solveSemiDefinite } from './linear-algebra';
 import type { Response } from './response';
@@ -24,6 +25,7 @@ interface Group {
   effect: number[];
 }
 
+/** Pull toward small moves, relative to the strongest screw: picks the smallest of equally good answers. */
 const MOVE_SIZE_WEIGHT = 1e-8;
 
 /** Middle screws may go finer than the practical increment, halving it up to this many times, when it is too coarse. */
@@ -37,6 +39,7 @@ const FINER_HALVINGS_FOR_MIDDLES = 2;
  */
 export function recommendMoves(input: RecommendInput): ScrewMove[] {
   const { stage, screws, state, response, tolerances = DEFAULT_TOLERANCES, incrementDeg = 5 } = input;
+  MEASURES.forEach((measure) => requireFinite(`state ${measure}`, state[measure]));
   const targets = Object.entries(stageTargets(stage, tolerances)) as [Measure, number][];
   const start = targets.map(([measure, toleranceUrad]) => state[measure] / toleranceUrad);
   const equal = stageMovesEqually(stage);

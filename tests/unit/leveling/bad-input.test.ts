@@ -7,6 +7,8 @@ import {
   convertSlope,
   divisionUrad,
   fitBaseModel,
+  nominalResponse,
+  recommendMoves,
   reversal,
   solveTilt,
   type LevelingErrorCode,
@@ -66,6 +68,12 @@ describe('bad input gets a LevelingError, never a silent NaN', () => {
       'bad-pitch',
       /lift per turn/,
     );
+  });
+
+  it('a state that is not a number', () => {
+    const screws = buildFootprint(square.map((s) => ({ id: s.id, kind: 'corner' as const, xMm: s.x, yMm: s.y, thread: { pitchMm: 3 } })));
+    const state = { tiltXUrad: Number.NaN, tiltYUrad: 0, twistUrad: 0, bowUrad: 0, sweepXUrad: 0, sweepYUrad: 0 };
+    expectLevelingError(() => recommendMoves({ stage: 'rough-level', screws, state, response: nominalResponse(screws, 1000) }), 'not-finite', /state tiltXUrad/);
   });
 
   it('empty travel', () => {

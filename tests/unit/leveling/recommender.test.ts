@@ -3,11 +3,15 @@ import {
   ADJUST_STAGES,
   buildFootprint,
   createVirtualMachine,
+  fitBaseModel,
   incrementUm,
+  learnFromRound,
   nominalResponse,
+  observedState,
   recommendMoves,
   ruleOfThumbMoves,
   runVirtualSession,
+  takeReadings,
   updateResponse,
   vectorToState,
   type Screw,
@@ -88,6 +92,31 @@ describe('learning', () => {
     expect(predict(learned, 0)).toBeCloseTo(70, 9);
     expect(predict(learned, 2)).toBeCloseTo(12, 9);
     expect(learned[1]).toEqual(response[1]);
+  });
+
+  it('one round of moves and readings halves the error of the predicted bow response wherever it was clear', () => {
+    let clear = 0;
+    for (let seed = 1; seed <= 10; seed++) {
+      const machine = createVirtualMachine({ seed });
+      const ids = machine.screws.map((s) => s.id);
+      const nominal = nominalResponse(machine.screws, machine.travelMm);
+      const options = { screwIds: ids, response: nominal, travelMm: machine.travelMm };
+      const moves = machine.screws.filter((s) => s.kind === 'middle').map((s) => ({ screwId: s.id, raiseUm: 120 }));
+      const raises = ids.map((id) => (moves.some((m) => m.screwId === id) ? 120 : 0));
+      const survey = () => observedState(fitBaseModel(Array.from({ length: 8 }, () => takeReadings(machine, 'bow')).flat(), options));
+      const before = survey();
+      const trueBefore = machine.trueState().bowUrad;
+      moves.forEach((m) => machine.applyMove(m.screwId, m.raiseUm));
+      const trueChange = machine.trueState().bowUrad - trueBefore;
+      const after = survey();
+      const learned = learnFromRound({ response: nominal, screwIds: ids, moves, before, after });
+      const error = (r: number[][]) => Math.abs(r[3]!.reduce((sum, v, j) => sum + v * raises[j]!, 0) - trueChange);
+      // Only where the nominal guess is off by more than the readings resolve (half a division is 10 µrad).
+      if (error(nominal) <= 10) continue;
+      clear++;
+      expect(error(learned), `seed ${seed}`).toBeLessThan(error(nominal) / 2);
+    }
+    expect(clear).toBeGreaterThanOrEqual(3);
   });
 
   it('with learning, the recommender brings seeded virtual machines within tolerance in every stage', () => {
