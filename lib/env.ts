@@ -9,6 +9,19 @@ const schema = z.object({
   PORT: z.coerce.number().int().positive().default(3000),
   HOST: z.string().default('127.0.0.1'),
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  /** Outgoing mail; in development and tests the start/test scripts point this at their loopback fake. */
+  SMTP_URL: z.string().url().default('smtp://127.0.0.1:2525'),
+  MAIL_FROM: z.string().default('Levelwire <no-reply@levelwire.invalid>'),
+  /** Where the loopback mail fake keeps what it caught; set only when the fake runs (enables the mailbox page). */
+  MAILBOX_DIR: z.string().optional(),
+  /** Object storage (S3 API); the scripts point this at their loopback fake, production at real storage. */
+  S3_ENDPOINT: z.string().url().optional(),
+  S3_REGION: z.string().default('us-east-1'),
+  S3_BUCKET: z.string().default('levelwire'),
+  S3_ACCESS_KEY_ID: z.string().default('S3RVER'),
+  S3_SECRET_ACCESS_KEY: z.string().default('S3RVER'),
+  /** Minutes between runs of the reminder job inside the server (0 turns it off). */
+  REMINDER_INTERVAL_MINUTES: z.coerce.number().min(0).default(60),
 });
 
 export type Env = z.infer<typeof schema>;

@@ -2,6 +2,7 @@
 import { spawn } from 'node:child_process';
 import { createDb } from '../db/client';
 import { DEMO_PASSWORD, DEMO_USERS, seedDemo } from '../db/seed';
+import { startFakes } from './fakes';
 import { buildIfStale, localSecret, log, prepareDatabase, waitForHealth } from './setup';
 
 const t0 = performance.now();
@@ -11,12 +12,15 @@ const db = createDb(cluster.url, 2);
 log((await seedDemo(db)) ? 'demo data seeded' : 'demo data already there');
 await db.$client.end();
 buildIfStale();
+const fakes = await startFakes('.data/fakes');
+log(`mail fake ${fakes.env.SMTP_URL} (messages in ${fakes.env.MAILBOX_DIR}), object store fake ${fakes.env.S3_ENDPOINT}`);
 
 const url = `http://127.0.0.1:${port}`;
 const server = spawn(process.execPath, ['dist/server.js'], {
   stdio: 'inherit',
   env: {
     ...process.env,
+    ...fakes.env,
     NODE_ENV: 'production',
     NEXT_TELEMETRY_DISABLED: '1',
     DATABASE_URL: cluster.url,
@@ -42,7 +46,8 @@ const stop = (signal: NodeJS.Signals) => {
 };
 process.on('SIGINT', () => stop('SIGINT'));
 process.on('SIGTERM', () => stop('SIGTERM'));
-server.on('exit', (code) => {
+server.on('exit', async (code) => {
+  await fakes.stop();
   cluster.stop();
   process.exit(code ?? 0);
 });

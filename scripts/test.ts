@@ -6,6 +6,7 @@ import path from 'node:path';
 import { createDb } from '../db/client';
 import { seedDemo } from '../db/seed';
 import { ensureChromium } from './apt';
+import { startFakes, type Fakes } from './fakes';
 import { buildIfStale, log, prepareDatabase, waitForHealth } from './setup';
 
 type Tally = { layer: string; passed: number; failed: number; skipped: number };
@@ -59,6 +60,7 @@ function runPlaywright(env: Record<string, string>): void {
 const t0 = performance.now();
 let server: ChildProcess | undefined;
 let cluster: Awaited<ReturnType<typeof prepareDatabase>> | undefined;
+let fakes: Fakes | undefined;
 let setupFailed = false;
 try {
   if (wants('unit')) runVitest('unit', {});
@@ -68,13 +70,15 @@ try {
     await seedDemo(db);
     await db.$client.end();
     buildIfStale();
+    rmSync('.data/test-fakes', { recursive: true, force: true });
+    fakes = await startFakes('.data/test-fakes');
     const chromium = wants('e2e') ? ensureChromium() : '';
     server = spawn(process.execPath, ['dist/server.js'], {
       stdio: ['ignore', 'inherit', 'inherit'],
-      env: { ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: cluster.url, PORT: String(PORT), HOST: '127.0.0.1', NEXTAUTH_URL: APP_URL, NEXTAUTH_SECRET: SECRET },
+      env: { ...process.env, ...fakes.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', REMINDER_INTERVAL_MINUTES: '0', DATABASE_URL: cluster.url, PORT: String(PORT), HOST: '127.0.0.1', NEXTAUTH_URL: APP_URL, NEXTAUTH_SECRET: SECRET },
     });
     await waitForHealth(APP_URL, server);
-    const env = { DATABASE_URL: cluster.url, APP_URL, NEXTAUTH_SECRET: SECRET, CHROMIUM_PATH: chromium };
+    const env = { ...fakes.env, DATABASE_URL: cluster.url, APP_URL, NEXTAUTH_SECRET: SECRET, CHROMIUM_PATH: chromium };
     if (wants('integration')) runVitest('integration', env);
     if (wants('e2e') && existsSync('tests/e2e/playwright.config.ts')) runPlaywright(env);
   }
@@ -86,6 +90,7 @@ try {
     server.kill('SIGTERM');
     await new Promise((r) => server!.once('exit', r));
   }
+  await fakes?.stop();
   cluster?.stop();
 }
 
