@@ -116,6 +116,8 @@ export const machines = pgTable(
     travelYMm: doublePrecision('travel_y_mm').notNull(),
     travelZMm: doublePrecision('travel_z_mm').notNull(),
     checkIntervalMonths: integer('check_interval_months').notNull().default(9),
+    /** The last leveling on record from before Levelwire (paper or imported); approved sessions supersede it. */
+    priorLeveledOn: date('prior_leveled_on', { mode: 'string' }),
     /** Tolerances overriding Levelwire's defaults; null means the default (twist and bow 20 µrad, sweep 12.7 µm TIR). */
     twistTolUrad: doublePrecision('twist_tol_urad'),
     bowTolUrad: doublePrecision('bow_tol_urad'),

@@ -12,6 +12,6 @@ await db.$client.end();
 const fakes = await startFakes('.data/fakes');
 const child = spawn('npx', ['tsx', 'watch', '--exclude', './.next/**', '--exclude', './.data/**', 'server.ts'], {
   stdio: 'inherit',
-  env: { ...process.env, ...fakes.env, NODE_ENV: 'development', DATABASE_URL: cluster.url, NEXTAUTH_URL: 'http://127.0.0.1:3000', NEXTAUTH_SECRET: localSecret() },
+  env: { ...process.env, ...fakes.env, NODE_ENV: 'development', NEXT_TELEMETRY_DISABLED: '1', DATABASE_URL: cluster.url, NEXTAUTH_URL: 'http://127.0.0.1:3000', NEXTAUTH_SECRET: localSecret() },
 });
 child.on('exit', (code) => process.exit(code ?? 0));

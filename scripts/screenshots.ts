@@ -3,7 +3,7 @@
 import { mkdirSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
 import { chromium, type Page } from 'playwright-core';
-import { DEMO_PASSWORD, DEMO_USERS } from '../db/seed';
+import { DEMO_MACHINE_SERIAL, DEMO_PASSWORD, DEMO_USERS } from '../db/seed';
 
 const base = process.argv[2] ?? 'http://127.0.0.1:3000';
 const out = 'docs/screenshots';
@@ -46,7 +46,7 @@ await signInPage.screenshot({ path: `${out}/sign-in.png` });
 const tech = await signIn('technician', { width: 412, height: 915 });
 await tech.getByRole('heading', { name: 'Machines' }).waitFor();
 await tech.screenshot({ path: `${out}/start-phone.png`, fullPage: true });
-await tech.getByRole('button', { name: 'Start leveling' }).first().click();
+await tech.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL }).getByRole('button', { name: 'Start leveling' }).click();
 await tech.waitForURL(/\/field$/);
 const sessionPath = new URL(tech.url()).pathname.replace(/\/field$/, '');
 for (const [axis, station, div] of [['X', 'Front', '1.5'], ['X', 'Back', '-0.5'], ['Y', 'Middle', '-2']] as const) {

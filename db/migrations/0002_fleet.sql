@@ -78,6 +78,7 @@ CREATE TABLE "visits" (
 ALTER TABLE "customers" ADD COLUMN "notes" text DEFAULT '' NOT NULL;--> statement-breakpoint
 ALTER TABLE "leveling_sessions" ADD COLUMN "visit_id" uuid;--> statement-breakpoint
 ALTER TABLE "leveling_sessions" ADD COLUMN "approved_at" timestamp with time zone;--> statement-breakpoint
+ALTER TABLE "machines" ADD COLUMN "prior_leveled_on" date;--> statement-breakpoint
 ALTER TABLE "machines" ADD COLUMN "twist_tol_urad" double precision;--> statement-breakpoint
 ALTER TABLE "machines" ADD COLUMN "bow_tol_urad" double precision;--> statement-breakpoint
 ALTER TABLE "machines" ADD COLUMN "sweep_tol_um" double precision;--> statement-breakpoint

@@ -3,11 +3,22 @@ import { AppError } from '@/lib/errors';
 import type { Actor } from './actor';
 
 /** What each role may do; the one table every route, page and socket handler consults. */
+const everyone = ['technician', 'expert', 'reviewer', 'admin'] as const;
+
 const permissions = {
   'session:open': ['technician'],
-  'session:view': ['technician', 'expert', 'reviewer', 'admin'],
+  'session:view': everyone,
   'reading:submit': ['technician'],
-  'fleet:read': ['technician', 'expert', 'reviewer', 'admin'],
+  'fleet:read': everyone,
+  'fleet:write': ['admin'],
+  'instrument:read': everyone,
+  'instrument:write': ['admin'],
+  'visit:read': everyone,
+  'visit:write': ['admin'],
+  /** Choosing an instrument past its calibration due date for a visit. */
+  'instrument:override': ['admin'],
+  'user:manage': ['admin'],
+  'mailbox:read': ['admin'],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof permissions;
@@ -28,6 +39,14 @@ const describe: Record<Permission, string> = {
   'session:view': 'view this session',
   'reading:submit': 'record readings',
   'fleet:read': 'read the fleet',
+  'fleet:write': 'change customers, sites or machines',
+  'instrument:read': 'read instruments',
+  'instrument:write': 'change instruments',
+  'visit:read': 'read visits',
+  'visit:write': 'schedule or change visits',
+  'instrument:override': 'allow an instrument past its calibration due date',
+  'user:manage': 'manage users',
+  'mailbox:read': 'read the development mailbox',
 };
 
 /** Records of another organisation do not exist for the caller: 404, so their existence does not leak. */

@@ -1,13 +1,14 @@
 import { expect, type Page } from '@playwright/test';
+import { DEMO_MACHINE_SERIAL } from '../../../db/seed';
 
 /** The technician's field view. */
 export class FieldPage {
   constructor(readonly page: Page) {}
 
-  /** Opens a new session from the start page's first machine and returns its id. */
+  /** Opens a new session for the walkthrough machine from the start page and returns its id. */
   async openNewSession(): Promise<string> {
     await this.page.goto('/');
-    await this.page.getByRole('button', { name: 'Start leveling' }).first().click();
+    await this.page.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL }).getByRole('button', { name: 'Start leveling' }).click();
     await this.page.waitForURL(/\/sessions\/[0-9a-f-]{36}\/field$/);
     await expect(this.page.locator('[data-link="live"]')).toBeVisible();
     return this.page.url().split('/sessions/')[1]!.split('/')[0]!;
