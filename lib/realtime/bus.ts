@@ -16,3 +16,16 @@ export function setBroadcaster(fn: Broadcaster | undefined): void {
 export function broadcast(event: SessionEvent): void {
   (globalThis as Holder)[key]?.(event);
 }
+
+/** Ends every live socket of one user (after a deactivation or a role change); registered by server.ts like the broadcaster. */
+type UserSocketEnder = (userId: string) => void;
+const enderKey = Symbol.for('levelwire.endUserSockets');
+type EnderHolder = { [enderKey]?: UserSocketEnder };
+
+export function setUserSocketEnder(fn: UserSocketEnder | undefined): void {
+  (globalThis as EnderHolder)[enderKey] = fn;
+}
+
+export function endUserSockets(userId: string): void {
+  (globalThis as EnderHolder)[enderKey]?.(userId);
+}

@@ -10,6 +10,8 @@ export const SOCKET_PATH = '/realtime';
 
 /** Room names come from here, never from string literals elsewhere. */
 export const sessionRoom = (sessionId: string) => `session:${sessionId}`;
+/** Every socket of one user (joined at connection), so a deactivation can end them all. */
+export const userRoom = (userId: string) => `user:${userId}`;
 
 /** Inbound command schemas, by event name. */
 export const commands = {

@@ -3,8 +3,8 @@ import { parse as parseCookies } from 'cookie';
 import { getToken } from 'next-auth/jwt';
 import { Server } from 'socket.io';
 import { actorFromUserId } from '@/lib/auth/actor';
-import { setBroadcaster } from './bus';
-import { SOCKET_PATH, sessionRoom } from './contract';
+import { setBroadcaster, setUserSocketEnder } from './bus';
+import { SOCKET_PATH, sessionRoom, userRoom } from './contract';
 import type { IoServer, RealtimeDeps } from './handlers/define';
 import { readingSubmitHandler } from './handlers/reading-submit';
 import { sessionJoinHandler, sessionLeaveHandler } from './handlers/session-join';
@@ -34,15 +34,18 @@ export function attachRealtime(httpServer: HttpServer, deps: RealtimeDeps & { se
   });
 
   io.on('connection', (socket) => {
+    void socket.join(userRoom(socket.data.actor.id));
     for (const attach of handlers) attach({ socket, io, deps });
   });
 
   setBroadcaster((event) => io.to(sessionRoom(event.sessionId)).emit(event.type, event));
+  setUserSocketEnder((userId) => io.in(userRoom(userId)).disconnectSockets(true));
 
   return {
     io,
     async close() {
       setBroadcaster(undefined);
+      setUserSocketEnder(undefined);
       await new Promise<void>((resolve) => io.close(() => resolve()));
     },
   };

@@ -1,0 +1,1 @@
+export { acceptInvitationInput, invitationInput } from '@/lib/fleet/invitations';
