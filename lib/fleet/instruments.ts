@@ -104,12 +104,12 @@ export type InstrumentView = {
 
 /** A stored file name made safe for a Content-Disposition header: plain ASCII, the extension of the detected type. */
 export function safeFileName(name: string, extension: string): string {
-  const base = name
+  const base = (name.split(/[\\/]/).pop() ?? '')
     .replace(/\.[^.]*$/, '')
     .normalize('NFKD')
     .replace(/[^A-Za-z0-9 ._-]+/g, '')
     .replace(/\s+/g, ' ')
-    .trim()
+    .replace(/^[ .]+|[ .]+$/g, '')
     .slice(0, 80);
   return `${base || 'certificate'}.${extension}`;
 }
