@@ -5,6 +5,7 @@ import { db } from './db/client';
 import { assertProductionSecrets, env } from './lib/env';
 import { SOCKET_PATH } from './lib/realtime/contract';
 import { attachRealtime } from './lib/realtime/server';
+import { startReminderTimer } from './lib/fleet/reminder-timer';
 
 const config = env();
 assertProductionSecrets(config);
@@ -15,6 +16,7 @@ await app.prepare();
 const handle = app.getRequestHandler();
 const httpServer = createServer((req, res) => void handle(req, res));
 const realtime = attachRealtime(httpServer, { db: db(), secret: config.NEXTAUTH_SECRET });
+const stopReminders = startReminderTimer(db(), config.REMINDER_INTERVAL_MINUTES);
 
 if (dev) {
   const upgrade = app.getUpgradeHandler();
@@ -34,6 +36,7 @@ async function shutdown(signal: string) {
   console.log(`[levelwire] ${signal}: closing`);
   const timer = setTimeout(() => process.exit(1), 10_000);
   timer.unref();
+  stopReminders();
   await realtime.close();
   await db().$client.end();
   process.exit(0);
