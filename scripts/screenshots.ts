@@ -44,8 +44,9 @@ await signInPage.goto(`${base}/sign-in`);
 await signInPage.screenshot({ path: `${out}/sign-in.png` });
 
 const tech = await signIn('technician', { width: 412, height: 915 });
-await tech.getByRole('heading', { name: 'Machines' }).waitFor();
+await tech.getByRole('heading', { name: 'Start leveling a machine' }).waitFor();
 await tech.screenshot({ path: `${out}/start-phone.png`, fullPage: true });
+await tech.getByLabel(/^Find a machine/).fill(DEMO_MACHINE_SERIAL);
 await tech.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL }).getByRole('button', { name: 'Start leveling' }).click();
 await tech.waitForURL(/\/field$/);
 const sessionPath = new URL(tech.url()).pathname.replace(/\/field$/, '');

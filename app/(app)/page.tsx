@@ -1,10 +1,9 @@
 import Link from 'next/link';
 import { db } from '@/db/client';
-import { listMachinesByOrganisation } from '@/db/queries/machines';
 import { listSessionsByOrganisation } from '@/db/queries/sessions';
 import { can } from '@/lib/auth/policy';
 import { requirePageActor } from '@/lib/auth/session';
-import { OpenSessionButton } from '@/components/session/open-session-button';
+import { MachinePicker } from '@/components/session/machine-picker';
 
 export const dynamic = 'force-dynamic';
 
@@ -19,39 +18,17 @@ const stateLabel: Record<string, string> = {
 
 export default async function HomePage() {
   const actor = await requirePageActor('/');
-  const [machines, sessions] = await Promise.all([
-    listMachinesByOrganisation(db(), { organisationId: actor.organisationId }),
-    listSessionsByOrganisation(db(), { organisationId: actor.organisationId }),
-  ]);
+  const sessions = await listSessionsByOrganisation(db(), { organisationId: actor.organisationId });
   const mayOpen = can(actor, 'session:open');
 
   return (
     <main className="mx-auto grid max-w-5xl gap-8 p-4 sm:p-6">
-      <section aria-labelledby="machines-h">
-        <h1 id="machines-h" className="text-2xl font-bold">
-          Machines
-        </h1>
-        <ul className="mt-3 grid gap-3">
-          {machines.map((m) => (
-            <li key={m.id} className="flex flex-wrap items-center justify-between gap-3 rounded-xl border-2 border-rule bg-card p-4">
-              <div>
-                <p className="text-lg font-bold">{m.model}</p>
-                <p className="text-ink-soft">
-                  {m.site.customer.name} · {m.site.name} · serial <span className="tabular">{m.serial}</span> · {m.screws.length} leveling screws
-                </p>
-              </div>
-              {mayOpen && <OpenSessionButton machineId={m.id} />}
-            </li>
-          ))}
-        </ul>
-      </section>
-
       <section aria-labelledby="sessions-h">
-        <h2 id="sessions-h" className="text-2xl font-bold">
+        <h1 id="sessions-h" className="text-2xl font-bold">
           Sessions
-        </h2>
+        </h1>
         {sessions.length === 0 ? (
-          <p className="mt-3 text-ink-soft">No sessions yet.{mayOpen ? ' Open one from a machine above.' : ''}</p>
+          <p className="mt-3 text-ink-soft">No sessions yet.{mayOpen ? ' Start one on a machine below.' : ''}</p>
         ) : (
           <ul className="mt-3 grid gap-2">
             {sessions.map((s) => (
@@ -75,6 +52,15 @@ export default async function HomePage() {
             ))}
           </ul>
         )}
+      </section>
+
+      <section aria-labelledby="machines-h">
+        <h2 id="machines-h" className="text-2xl font-bold">
+          {mayOpen ? 'Start leveling a machine' : 'Machines'}
+        </h2>
+        <div className="mt-3">
+          <MachinePicker mayOpen={mayOpen} />
+        </div>
       </section>
     </main>
   );

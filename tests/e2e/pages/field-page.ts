@@ -8,6 +8,7 @@ export class FieldPage {
   /** Opens a new session for the walkthrough machine from the start page and returns its id. */
   async openNewSession(): Promise<string> {
     await this.page.goto('/');
+    await this.page.getByLabel(/^Find a machine/).fill(DEMO_MACHINE_SERIAL);
     await this.page.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL }).getByRole('button', { name: 'Start leveling' }).click();
     await this.page.waitForURL(/\/sessions\/[0-9a-f-]{36}\/field$/);
     await expect(this.page.locator('[data-link="live"]')).toBeVisible();
