@@ -14,7 +14,7 @@ export const SLOPE_UNIT_LABELS: Record<SlopeUnit, string> = {
   arcsec: 'arc-second',
 };
 
-const isoDate = z.iso.date({ error: 'must be a date (YYYY-MM-DD)' });
+const isoDate = z.iso.date({ error: (iss) => (iss.input == null || iss.input === '' ? 'enter a date' : 'must be a date (YYYY-MM-DD)') });
 const positive = (max: number, unit: string) =>
   z.number({ error: 'must be a number' }).finite('must be a number').positive('must be greater than zero').max(max, `must be at most ${max} ${unit}`);
 
