@@ -1,25 +1,13 @@
 import { sql, type SQL } from 'drizzle-orm';
 import type { Db } from '../client';
 import { likePattern, type Page } from '@/lib/list-query';
-import type { DueStatus } from '@/lib/fleet/due';
+import type { DueRow, DueStatus } from '@/lib/fleet/due';
+
+export type { DueRow };
 
 export const DUE_SORTS = ['nextDue', 'model', 'customer'] as const;
 export type DueSort = (typeof DUE_SORTS)[number];
 
-export type DueRow = {
-  machineId: string;
-  model: string;
-  serial: string;
-  customerName: string;
-  siteName: string;
-  checkIntervalMonths: number;
-  /** The later of the last approved session's UTC day and the leveling on record from before Levelwire; null: never leveled. */
-  lastLeveledOn: string | null;
-  nextDueOn: string | null;
-  status: DueStatus;
-  /** The earliest open (scheduled or in progress) visit, ISO time, if one is booked. */
-  nextVisitAt: string | null;
-};
 
 /**
  * Each machine with its last leveling, next due date and status, computed in PostgreSQL with the same

@@ -5,7 +5,7 @@ import { customers, instruments, machines, sites, users, visitInstruments, visit
 import { AppError } from '@/lib/errors';
 import { likePattern, type ListQuery, type Page } from '@/lib/list-query';
 import { addDays } from '@/lib/fleet/due';
-import { assertVisitTransition, type VisitSort, type VisitState } from '@/lib/fleet/visits';
+import { assertVisitTransition, type VisitRow, type VisitSort, type VisitState } from '@/lib/fleet/visits';
 
 type Org = { organisationId: string };
 type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
@@ -13,19 +13,6 @@ type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 const technician = alias(users, 'technician');
 const expert = alias(users, 'expert');
 
-export type VisitRow = {
-  id: string;
-  scheduledFor: string;
-  state: VisitState;
-  notes: string;
-  machineId: string;
-  machineModel: string;
-  machineSerial: string;
-  customerName: string;
-  siteName: string;
-  technicianName: string;
-  expertName: string | null;
-};
 
 const sortColumns: Record<VisitSort, SQL[]> = {
   scheduledFor: [sql`${visits.scheduledFor}`],
@@ -283,4 +270,13 @@ export async function listAdminEmails(db: Db, { organisationId }: Org): Promise<
     .from(users)
     .where(and(eq(users.organisationId, organisationId), eq(users.role, 'admin'), eq(users.active, true)));
   return rows.map((r) => r.email);
+}
+
+/** The organisation's instruments in use, for choosing them for a visit. */
+export async function listActiveInstruments(db: Db, { organisationId }: Org) {
+  return db
+    .select({ id: instruments.id, kind: instruments.kind, model: instruments.model, serial: instruments.serial, calibrationDue: instruments.calibrationDue })
+    .from(instruments)
+    .where(and(eq(instruments.organisationId, organisationId), eq(instruments.active, true)))
+    .orderBy(asc(instruments.kind), asc(instruments.serial));
 }

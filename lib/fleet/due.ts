@@ -5,6 +5,22 @@
 
 export type DueStatus = 'overdue' | 'due-soon' | 'ok';
 
+/** One machine in the due list, as GET /api/due answers it. */
+export type DueRow = {
+  machineId: string;
+  model: string;
+  serial: string;
+  customerName: string;
+  siteName: string;
+  checkIntervalMonths: number;
+  /** The later of the last approved session's UTC day and the leveling on record from before Levelwire; null: never leveled. */
+  lastLeveledOn: string | null;
+  nextDueOn: string | null;
+  status: DueStatus;
+  /** The earliest open (scheduled or in progress) visit, ISO time, if one is booked. */
+  nextVisitAt: string | null;
+};
+
 const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
 
 function parse(iso: string): { y: number; m: number; d: number } {

@@ -5,6 +5,21 @@ import { listQuery } from '@/lib/list-query';
 export const VISIT_STATES = ['scheduled', 'in_progress', 'completed', 'cancelled'] as const;
 export type VisitState = (typeof VISIT_STATES)[number];
 
+/** One visit in the list, as GET /api/visits answers it. */
+export type VisitRow = {
+  id: string;
+  scheduledFor: string;
+  state: VisitState;
+  notes: string;
+  machineId: string;
+  machineModel: string;
+  machineSerial: string;
+  customerName: string;
+  siteName: string;
+  technicianName: string;
+  expertName: string | null;
+};
+
 export const VISIT_STATE_LABEL: Record<VisitState, string> = {
   scheduled: 'Scheduled',
   in_progress: 'In progress',

@@ -325,7 +325,7 @@ describe('instruments for a visit', () => {
     const reason = 'Checked against the reference block this morning; recalibration booked.';
     const allowed = await api(`/api/visits/${visitId}/instruments`, { cookie: cookies.admin, method: 'POST', body: { instrumentId: instrumentIds.expired, overrideReason: reason } });
     expect(allowed.status).toBe(201);
-    const [row] = await db.select().from(visitInstruments).where(and(eq(visitInstruments.visitId, visitId), eq(visitInstruments.instrumentId, instrumentIds.expired)));
+    const [row] = await db.select().from(visitInstruments).where(and(eq(visitInstruments.visitId, visitId), eq(visitInstruments.instrumentId, instrumentIds.expired!)));
     expect(row).toMatchObject({ overrideReason: reason, overrideById: org.users.admin.id });
     expect(Math.abs(row!.overrideAt!.getTime() - Date.now())).toBeLessThan(60_000);
     const shown = await api(`/api/visits/${visitId}`, { cookie: cookies.technician });

@@ -79,7 +79,7 @@ describe('dueStatus', () => {
     ['2026-03-10', 0, 'due-soon', 'soonDays 0: only the day itself is due soon'],
     ['2026-03-11', 0, 'ok', 'soonDays 0: tomorrow is fine'],
     ['2026-04-09', 30, 'due-soon', 'thirty days across a 31-day March'],
-  ] as const)('%s with %i days warning is %s (%s)', (due, soon, expected) => {
+  ] as [string, number, 'overdue' | 'due-soon' | 'ok', string][])('%s with %i days warning is %s (%s)', (due, soon, expected) => {
     expect(dueStatus(due, today, soon)).toBe(expected);
   });
 

@@ -1,0 +1,100 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { notFound } from 'next/navigation';
+import { db } from '@/db/client';
+import { getVisit, listActiveInstruments, listVisitInstruments } from '@/db/queries/visits';
+import { LocalTime } from '@/components/visits/local-time';
+import { VisitActions } from '@/components/visits/visit-actions';
+import { VisitInstruments } from '@/components/visits/visit-instruments';
+import { VisitStateChip } from '@/components/visits/visit-state-chip';
+import { can } from '@/lib/auth/policy';
+import { requirePageActor } from '@/lib/auth/session';
+import { calibrationStatus, todayIso } from '@/lib/fleet/calibration';
+import { timeInWords } from '@/lib/fleet/visits';
+
+export const metadata: Metadata = { title: 'Visit' };
+export const dynamic = 'force-dynamic';
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+export default async function VisitPage({ params }: { params: Promise<{ id: string }> }) {
+  const { id } = await params;
+  const actor = await requirePageActor(`/visits/${id}`);
+  if (!UUID.test(id)) notFound();
+  const detail = await getVisit(db(), { organisationId: actor.organisationId, id });
+  if (!detail) notFound();
+  const { visit, machine, site, customerName, technician, expert } = detail;
+  const today = todayIso();
+  const isAdmin = can(actor, 'visit:write');
+  const open = visit.state === 'scheduled' || visit.state === 'in_progress';
+  const mayChangeInstruments = open && (isAdmin || actor.id === visit.technicianId);
+  const [chosen, available] = await Promise.all([
+    listVisitInstruments(db(), { visitId: id }),
+    mayChangeInstruments ? listActiveInstruments(db(), { organisationId: actor.organisationId }) : Promise.resolve([]),
+  ]);
+  const visitDay = todayIso(visit.scheduledFor);
+  const onDay = visitDay > today ? visitDay : today;
+
+  return (
+    <main className="mx-auto grid max-w-5xl gap-6 p-4 sm:p-6">
+      <Link href="/visits" className="inline-flex min-h-12 w-fit items-center font-semibold text-spirit underline underline-offset-4">
+        ← All visits
+      </Link>
+      <div className="flex flex-wrap items-start justify-between gap-3">
+        <div>
+          <h1 className="text-2xl font-bold">
+            Visit: {machine.model} <span className="tabular font-normal">· {machine.serial}</span>
+          </h1>
+          <p className="text-lg">
+            <LocalTime iso={visit.scheduledFor.toISOString()} />
+            <span className="text-ink-soft"> · {timeInWords(visit.scheduledFor)}</span>
+          </p>
+        </div>
+        <VisitStateChip state={visit.state} />
+      </div>
+      <dl className="grid gap-x-6 gap-y-3 rounded-xl border-2 border-rule bg-card p-4 sm:grid-cols-2">
+        <div>
+          <dt className="font-semibold text-ink-soft">Customer · site</dt>
+          <dd>
+            {customerName} · {site.name}
+          </dd>
+        </div>
+        <div>
+          <dt className="font-semibold text-ink-soft">Address</dt>
+          <dd>{site.address || 'No address on record'}</dd>
+        </div>
+        <div>
+          <dt className="font-semibold text-ink-soft">Technician</dt>
+          <dd>{technician.name}</dd>
+        </div>
+        <div>
+          <dt className="font-semibold text-ink-soft">Expert</dt>
+          <dd>{expert?.name ?? 'None assigned'}</dd>
+        </div>
+        {site.accessNotes && (
+          <div className="sm:col-span-2">
+            <dt className="font-semibold text-ink-soft">Site access</dt>
+            <dd>{site.accessNotes}</dd>
+          </div>
+        )}
+        <div className="sm:col-span-2">
+          <dt className="font-semibold text-ink-soft">Notes</dt>
+          <dd className="whitespace-pre-wrap">{visit.notes || '—'}</dd>
+        </div>
+        <div className="sm:col-span-2">
+          <dt className="font-semibold text-ink-soft">Reminder</dt>
+          <dd>{visit.reminderSentAt ? `Sent ${visit.reminderSentAt.toISOString().slice(0, 16).replace('T', ' ')} UTC` : 'Goes out 24 hours before the visit'}</dd>
+        </div>
+      </dl>
+      <VisitInstruments
+        visitId={id}
+        today={onDay}
+        isAdmin={isAdmin}
+        mayChange={mayChangeInstruments}
+        chosen={chosen.map((c) => ({ ...c, status: calibrationStatus(c.calibrationDue, onDay), overrideAt: c.overrideAt?.toISOString() ?? null }))}
+        available={available.map((a) => ({ ...a, status: calibrationStatus(a.calibrationDue, onDay) }))}
+      />
+      {isAdmin && <VisitActions visitId={id} state={visit.state} scheduledFor={visit.scheduledFor.toISOString()} notes={visit.notes} />}
+    </main>
+  );
+}
