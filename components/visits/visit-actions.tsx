@@ -2,7 +2,7 @@
 
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { useRouter } from 'next/navigation';
-import { useState } from 'react';
+import { useState, useTransition } from 'react';
 import { DUE_KEY } from '@/components/due/due-table';
 import { apiFetch } from '@/components/session/api';
 import { Button } from '@/components/ui/button';
@@ -20,6 +20,7 @@ function localInputValue(d: Date): string {
 /** The admin's controls on a visit: move its state, reschedule, edit notes (PATCH /api/visits/[id]). */
 export function VisitActions({ visitId, state, scheduledFor, notes }: { visitId: string; state: VisitState; scheduledFor: string; notes: string }) {
   const router = useRouter();
+  const [, startRefresh] = useTransition();
   const queryClient = useQueryClient();
   const [when, setWhen] = useState(() => localInputValue(new Date(scheduledFor)));
   const [text, setText] = useState(notes);
@@ -29,7 +30,7 @@ export function VisitActions({ visitId, state, scheduledFor, notes }: { visitId:
     onSuccess: async (res, body) => {
       setMessage(body.scheduledFor ? (res.noticeSent ? 'Rescheduled; the technician and expert were e-mailed.' : 'Rescheduled; the notice e-mail could not be sent.') : 'Saved.');
       await Promise.all([queryClient.invalidateQueries({ queryKey: VISITS_KEY }), queryClient.invalidateQueries({ queryKey: DUE_KEY })]);
-      router.refresh();
+      startRefresh(() => router.refresh());
     },
   });
   const err = mutation.error as (Error & { field?: string }) | null;

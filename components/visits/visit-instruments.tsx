@@ -2,7 +2,7 @@
 
 import { useMutation } from '@tanstack/react-query';
 import { useRouter } from 'next/navigation';
-import { useState } from 'react';
+import { useState, useTransition } from 'react';
 import { CalibrationChip } from '@/components/instruments/calibration-chip';
 import { apiFetch } from '@/components/session/api';
 import { Button } from '@/components/ui/button';
@@ -42,6 +42,7 @@ export function VisitInstruments({
   isAdmin: boolean;
 }) {
   const router = useRouter();
+  const [refreshing, startRefresh] = useTransition();
   const [instrumentId, setInstrumentId] = useState('');
   const [reason, setReason] = useState('');
   const picked = available.find((a) => a.id === instrumentId);
@@ -50,12 +51,12 @@ export function VisitInstruments({
     onSuccess: () => {
       setInstrumentId('');
       setReason('');
-      router.refresh();
+      startRefresh(() => router.refresh());
     },
   });
   const remove = useMutation({
     mutationFn: (id: string) => apiFetch(`/api/visits/${visitId}/instruments/${id}`, { method: 'DELETE' }),
-    onSuccess: () => router.refresh(),
+    onSuccess: () => startRefresh(() => router.refresh()),
   });
   const chosenIds = new Set(chosen.map((c) => c.instrumentId));
   const addErr = add.error as (Error & { field?: string }) | null;
@@ -87,7 +88,7 @@ export function VisitInstruments({
                 )}
               </span>
               {mayChange && (
-                <Button type="button" tone="plain" disabled={remove.isPending} onClick={() => remove.mutate(c.instrumentId)} aria-label={`Remove ${c.serial}`}>
+                <Button type="button" tone="plain" disabled={remove.isPending || refreshing} onClick={() => remove.mutate(c.instrumentId)} aria-label={`Remove ${c.serial}`}>
                   Remove
                 </Button>
               )}
@@ -122,8 +123,8 @@ export function VisitInstruments({
                   ))}
               </select>
             </FormField>
-            <Button type="submit" disabled={!instrumentId || add.isPending}>
-              Add instrument
+            <Button type="submit" disabled={!instrumentId || add.isPending || refreshing}>
+              {add.isPending ? 'Adding…' : refreshing ? 'Updating…' : 'Add instrument'}
             </Button>
           </div>
           {picked?.status === 'expired' &&
@@ -140,7 +141,7 @@ export function VisitInstruments({
                 {picked.serial} was due for calibration on {picked.calibrationDue}. Only an admin may allow it, with a written reason.
               </p>
             ))}
-          {add.error && addErr?.field !== 'instrumentId' && (
+          {add.error && !(addErr?.field === 'instrumentId' || (addErr?.field === 'overrideReason' && picked?.status === 'expired' && isAdmin)) && (
             <p role="alert" className="font-semibold text-fail">
               {add.error.message}
             </p>
