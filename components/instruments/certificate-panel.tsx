@@ -35,7 +35,8 @@ export function CertificatePanel({ instrument, mayUpload }: { instrument: Instru
       router.refresh();
     },
   });
-  const cert = instrument.certificate;
+  // The answer of the upload shows at once; the page refresh that follows brings the same record.
+  const cert = (upload.data ?? instrument).certificate;
   const error = localError ?? upload.error?.message ?? null;
 
   return (

@@ -11,7 +11,7 @@ export const SLOPE_UNIT_LABELS: Record<SlopeUnit, string> = {
   'in/in': 'in/in',
   'in/10in': 'in/10 in',
   'in/ft': 'in/ft',
-  arcsec: 'arc-second',
+  arcsec: 'arc-seconds',
 };
 
 const isoDate = z.iso.date({ error: (iss) => (iss.input == null || iss.input === '' ? 'enter a date' : 'must be a date (YYYY-MM-DD)') });
