@@ -64,8 +64,8 @@ export function FootprintEditor({ value, onChange, tableLengthMm, tableWidthMm, 
   };
 
   return (
-    <div className="grid gap-4 lg:grid-cols-[minmax(0,1fr)_minmax(0,1.2fr)]">
-      <figure className="grid gap-2">
+    <div className="grid gap-4 xl:grid-cols-[26rem_minmax(0,1fr)]">
+      <figure className="grid max-w-lg content-start gap-2">
         <svg
           ref={svgRef}
           viewBox={`${-extent} ${-extent} ${2 * extent} ${2 * extent}`}
@@ -101,8 +101,8 @@ export function FootprintEditor({ value, onChange, tableLengthMm, tableWidthMm, 
               }}
               data-screw={s.label}
             >
-              <circle r={extent / 22} fill={KIND_FILL[s.kind]} stroke={problems.has(i) ? 'var(--color-fail)' : 'var(--color-ink)'} strokeWidth={extent / (problems.has(i) ? 90 : 200)} />
-              <text textAnchor="middle" dominantBaseline="middle" fontSize={extent / 22} fontWeight={700} fill="white" pointerEvents="none">
+              <circle r={extent / 17} fill={KIND_FILL[s.kind]} stroke={problems.has(i) ? 'var(--color-fail)' : 'var(--color-ink)'} strokeWidth={extent / (problems.has(i) ? 90 : 200)} />
+              <text textAnchor="middle" dominantBaseline="middle" fontSize={extent / (s.label.length > 2 ? 30 : 22)} fontWeight={700} fill="white" pointerEvents="none">
                 {s.label}
               </text>
             </g>
@@ -177,7 +177,7 @@ function FootprintRow(props: { index: number; screw: ScrewInput; unitSystem: Uni
           <input aria-label={`Screw ${index + 1} label`} value={s.label} readOnly={readOnly} onChange={(e) => onPatch({ label: e.target.value })} className={`${cell} w-20`} />
         </td>
         <td className="p-1">
-          <select aria-label={`Screw ${index + 1} kind`} value={s.kind} disabled={readOnly} onChange={(e) => onPatch({ kind: e.target.value as ScrewInput['kind'] })} className={`${cell} w-32`}>
+          <select aria-label={`Screw ${index + 1} kind`} value={s.kind} disabled={readOnly} onChange={(e) => onPatch({ kind: e.target.value as ScrewInput['kind'] })} className={`${cell} w-36`}>
             <option value="corner">corner</option>
             <option value="middle">middle</option>
             <option value="outrigger">outrigger</option>
@@ -185,13 +185,13 @@ function FootprintRow(props: { index: number; screw: ScrewInput; unitSystem: Uni
         </td>
         {(['xMm', 'yMm'] as const).map((k) => (
           <td key={k} className="p-1">
-            <NumberCell label={`Screw ${index + 1} ${k === 'xMm' ? 'x' : 'y'}`} value={s[k]} show={toShown} parse={toMm} readOnly={readOnly} onValue={(mm) => onPatch({ [k]: mm ?? Number.NaN })} className={`${cell} w-24`} />
+            <NumberCell label={`Screw ${index + 1} ${k === 'xMm' ? 'x' : 'y'}`} value={s[k]} show={toShown} parse={toMm} readOnly={readOnly} onValue={(mm) => onPatch({ [k]: mm ?? Number.NaN })} className={`${cell} w-28`} />
           </td>
         ))}
         <td className="p-1">
           <span className="flex gap-1">
-            <NumberCell label={`Screw ${index + 1} thread value`} value={s.thread.value} show={same} parse={same} readOnly={readOnly} onValue={(v) => onPatch({ thread: { ...s.thread, value: v ?? Number.NaN } })} className={`${cell} w-16`} />
-            <select aria-label={`Screw ${index + 1} thread unit`} value={s.thread.unit} disabled={readOnly} onChange={(e) => onPatch({ thread: { ...s.thread, unit: e.target.value as 'mm' | 'tpi' } })} className={`${cell} w-24`}>
+            <NumberCell label={`Screw ${index + 1} thread value`} value={s.thread.value} show={same} parse={same} readOnly={readOnly} onValue={(v) => onPatch({ thread: { ...s.thread, value: v ?? Number.NaN } })} className={`${cell} w-20`} />
+            <select aria-label={`Screw ${index + 1} thread unit`} value={s.thread.unit} disabled={readOnly} onChange={(e) => onPatch({ thread: { ...s.thread, unit: e.target.value as 'mm' | 'tpi' } })} className={`${cell} w-28`}>
               <option value="mm">mm pitch</option>
               <option value="tpi">tpi</option>
             </select>

@@ -21,27 +21,35 @@ const LENGTHS: [LengthKey, string][] = [
   ['travelZMm', 'Z travel'],
 ];
 
-/** What the form holds: lengths and tolerances in the user's units; everything else as the API takes it. */
-type FormValues = Omit<MachineInput, LengthKey | 'twistTolUrad' | 'bowTolUrad' | 'sweepTolUm' | 'priorLeveledOn'> &
-  Record<LengthKey, number> & { twistTol: number | null; bowTol: number | null; sweepTol: number | null; priorLeveledOn: string };
+/** What the form holds: numbers as typed (in the user's units); the screws and ids as the API takes them. */
+type FormValues = Pick<MachineInput, 'siteId' | 'model' | 'serial' | 'screws'> &
+  Record<LengthKey | 'checkIntervalMonths' | 'twistTol' | 'bowTol' | 'sweepTol', string> & { priorLeveledOn: string };
+
+/** A typed number: blank is NaN for a required field (the schema then says "must be a number"). */
+const required = (typed: string) => (typed.trim() === '' ? Number.NaN : Number(typed));
+/** A typed number for an optional field: blank means "not set". */
+const optional = (typed: string | null | undefined) => (typed == null || typed.trim() === '' ? null : Number(typed));
+const shown = (v: number | null | undefined) => (v == null ? '' : String(v));
 
 const slopeUnit = (u: UnitSystem) => (u === 'inch' ? 'in/10in' : 'um/m');
 const slopeLabel = (u: UnitSystem) => (u === 'inch' ? 'in per 10 in' : 'µm/m');
 
+/** Converts a finite value; a missing or non-numeric one passes through for the schema to name. */
+const through = (x: number | null, convert: (v: number) => number) => (x === null || !Number.isFinite(x) ? x : convert(x));
+
 function toPayload(v: FormValues, u: UnitSystem): unknown {
-  const n = (x: number | null) => (x === null || Number.isNaN(x) ? null : x);
   const payload: Record<string, unknown> = {
     siteId: v.siteId,
     model: v.model,
     serial: v.serial,
-    checkIntervalMonths: v.checkIntervalMonths,
+    checkIntervalMonths: required(v.checkIntervalMonths),
     priorLeveledOn: v.priorLeveledOn || null,
-    twistTolUrad: n(v.twistTol) === null ? null : convertSlope(v.twistTol!, slopeUnit(u), 'urad'),
-    bowTolUrad: n(v.bowTol) === null ? null : convertSlope(v.bowTol!, slopeUnit(u), 'urad'),
-    sweepTolUm: n(v.sweepTol) === null ? null : u === 'inch' ? convertLength(v.sweepTol!, 'in', 'um') : v.sweepTol,
+    twistTolUrad: through(optional(v.twistTol), (x) => convertSlope(x, slopeUnit(u), 'urad')),
+    bowTolUrad: through(optional(v.bowTol), (x) => convertSlope(x, slopeUnit(u), 'urad')),
+    sweepTolUm: through(optional(v.sweepTol), (x) => (u === 'inch' ? convertLength(x, 'in', 'um') : x)),
     screws: v.screws,
   };
-  for (const [k] of LENGTHS) payload[k] = Number.isFinite(v[k]) ? displayToMm(v[k], u) : v[k];
+  for (const [k] of LENGTHS) payload[k] = through(required(v[k]), (x) => displayToMm(x, u));
   return payload;
 }
 
@@ -74,14 +82,29 @@ export function MachineForm({ unitSystem: u, sites, machine, readOnly = false }:
   const queryClient = useQueryClient();
   const start: FormValues = machine
     ? {
-        ...machine,
-        ...Object.fromEntries(LENGTHS.map(([k]) => [k, mmToDisplay(machine[k], u)])),
-        twistTol: machine.twistTolUrad == null ? null : convertSlope(machine.twistTolUrad, 'urad', slopeUnit(u)),
-        bowTol: machine.bowTolUrad == null ? null : convertSlope(machine.bowTolUrad, 'urad', slopeUnit(u)),
-        sweepTol: machine.sweepTolUm == null ? null : u === 'inch' ? Math.round(convertLength(machine.sweepTolUm, 'um', 'in') * 1e5) / 1e5 : machine.sweepTolUm,
+        siteId: machine.siteId,
+        model: machine.model,
+        serial: machine.serial,
+        screws: machine.screws,
+        ...(Object.fromEntries(LENGTHS.map(([k]) => [k, shown(mmToDisplay(machine[k], u))])) as Record<LengthKey, string>),
+        checkIntervalMonths: String(machine.checkIntervalMonths),
+        twistTol: shown(machine.twistTolUrad == null ? null : convertSlope(machine.twistTolUrad, 'urad', slopeUnit(u))),
+        bowTol: shown(machine.bowTolUrad == null ? null : convertSlope(machine.bowTolUrad, 'urad', slopeUnit(u))),
+        sweepTol: shown(machine.sweepTolUm == null ? null : u === 'inch' ? Math.round(convertLength(machine.sweepTolUm, 'um', 'in') * 1e5) / 1e5 : machine.sweepTolUm),
         priorLeveledOn: machine.priorLeveledOn ?? '',
-      } as FormValues
-    : ({ siteId: sites[0]?.id ?? '', model: '', serial: '', checkIntervalMonths: 9, priorLeveledOn: '', twistTol: null, bowTol: null, sweepTol: null, screws: [], ...Object.fromEntries(LENGTHS.map(([k]) => [k, Number.NaN])) } as unknown as FormValues);
+      }
+    : {
+        siteId: sites[0]?.id ?? '',
+        model: '',
+        serial: '',
+        screws: [],
+        ...(Object.fromEntries(LENGTHS.map(([k]) => [k, ''])) as Record<LengthKey, string>),
+        checkIntervalMonths: '9',
+        twistTol: '',
+        bowTol: '',
+        sweepTol: '',
+        priorLeveledOn: '',
+      };
   const form = useForm<FormValues>({ defaultValues: start, resolver: resolverFor(u), mode: 'onBlur' });
   const { register, handleSubmit, control, formState, watch, setError } = form;
 
@@ -100,12 +123,10 @@ export function MachineForm({ unitSystem: u, sites, machine, readOnly = false }:
     },
   });
 
-  const numberField = (name: keyof FormValues) => register(name, { setValueAs: (v: string) => (v === '' ? Number.NaN : Number(v)) });
-  const optionalNumber = (name: keyof FormValues) => register(name, { setValueAs: (v: string) => (v === '' ? null : Number(v)) });
   const err = (name: keyof FormValues) => formState.errors[name]?.message as string | undefined;
   const unit = lengthUnit(u);
-  const tableLength = watch('tableLengthMm');
-  const tableWidth = watch('tableWidthMm');
+  const tableLength = required(watch('tableLengthMm'));
+  const tableWidth = required(watch('tableWidthMm'));
 
   return (
     <form onSubmit={handleSubmit((v) => save.mutate(v))} noValidate className="grid gap-6">
@@ -127,11 +148,11 @@ export function MachineForm({ unitSystem: u, sites, machine, readOnly = false }:
         </FormField>
         {LENGTHS.map(([k, label]) => (
           <FormField key={k} label={`${label} (${unit})`} error={err(k)}>
-            <input inputMode="decimal" {...numberField(k)} aria-invalid={Boolean(err(k))} className={`${inputClass} tabular`} />
+            <input inputMode="decimal" {...register(k)} aria-invalid={Boolean(err(k))} className={`${inputClass} tabular`} />
           </FormField>
         ))}
         <FormField label="Check every (months)" error={err('checkIntervalMonths')} hint="The trade checks every 6 to 12 months.">
-          <input inputMode="numeric" {...numberField('checkIntervalMonths')} aria-invalid={Boolean(err('checkIntervalMonths'))} className={`${inputClass} tabular`} />
+          <input inputMode="numeric" {...register('checkIntervalMonths')} aria-invalid={Boolean(err('checkIntervalMonths'))} className={`${inputClass} tabular`} />
         </FormField>
         <FormField label="Last leveled before Levelwire" error={err('priorLeveledOn')} hint="From the paper record, if any.">
           <input type="date" {...register('priorLeveledOn')} aria-invalid={Boolean(err('priorLeveledOn'))} className={inputClass} />
@@ -141,13 +162,13 @@ export function MachineForm({ unitSystem: u, sites, machine, readOnly = false }:
       <fieldset disabled={readOnly} className="grid gap-4 sm:grid-cols-3">
         <legend className="mb-2 text-lg font-bold">Tolerances (blank: Levelwire&apos;s defaults)</legend>
         <FormField label={`Twist (${slopeLabel(u)})`} error={err('twistTol')} hint={u === 'inch' ? 'Default 0.0002' : 'Default 20'}>
-          <input inputMode="decimal" {...optionalNumber('twistTol')} aria-invalid={Boolean(err('twistTol'))} className={`${inputClass} tabular`} />
+          <input inputMode="decimal" {...register('twistTol')} aria-invalid={Boolean(err('twistTol'))} className={`${inputClass} tabular`} />
         </FormField>
         <FormField label={`Bow (${slopeLabel(u)})`} error={err('bowTol')} hint={u === 'inch' ? 'Default 0.0002' : 'Default 20'}>
-          <input inputMode="decimal" {...optionalNumber('bowTol')} aria-invalid={Boolean(err('bowTol'))} className={`${inputClass} tabular`} />
+          <input inputMode="decimal" {...register('bowTol')} aria-invalid={Boolean(err('bowTol'))} className={`${inputClass} tabular`} />
         </FormField>
         <FormField label={`Spindle sweep TIR (${u === 'inch' ? 'in' : 'µm'})`} error={err('sweepTol')} hint={u === 'inch' ? 'Default 0.0005 on a 10 in circle' : 'Default 12.7 on a 254 mm circle'}>
-          <input inputMode="decimal" {...optionalNumber('sweepTol')} aria-invalid={Boolean(err('sweepTol'))} className={`${inputClass} tabular`} />
+          <input inputMode="decimal" {...register('sweepTol')} aria-invalid={Boolean(err('sweepTol'))} className={`${inputClass} tabular`} />
         </FormField>
       </fieldset>
 

@@ -17,7 +17,7 @@ const columns: ColumnDef<MachineRow, unknown>[] = [
       </Link>
     ),
   },
-  { id: 'serial', header: 'Serial', accessorKey: 'serial', cell: ({ getValue }) => <span className="tabular">{String(getValue())}</span> },
+  { id: 'serial', header: 'Serial', accessorKey: 'serial', cell: ({ getValue }) => <span className="tabular whitespace-nowrap">{String(getValue())}</span> },
   { id: 'customer', header: 'Customer', accessorKey: 'customerName' },
   { id: 'site', header: 'Site', accessorKey: 'siteName' },
   { id: 'screws', header: 'Screws', accessorKey: 'screwCount', cell: ({ getValue }) => <span className="tabular">{String(getValue())}</span> },
