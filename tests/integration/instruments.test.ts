@@ -9,7 +9,7 @@ import { api, APP_URL, signInOverHttp } from './helpers/http';
 const db = testDb();
 let org: OrgFixture;
 let other: OrgFixture;
-const cookies: Record<string, string> = {};
+const cookies = {} as Record<string, string>;
 const today = todayIso();
 
 const level = (patch: Record<string, unknown> = {}) => ({
@@ -46,7 +46,7 @@ async function countInstruments(organisationId: string) {
 /** A multipart upload as a browser sends it. */
 async function upload(id: string, bytes: Uint8Array, name: string, cookie = cookies.admin, type = 'application/pdf') {
   const form = new FormData();
-  form.set('file', new Blob([bytes], { type }), name);
+  form.set('file', new Blob([bytes as Uint8Array<ArrayBuffer>], { type }), name);
   const res = await fetch(`${APP_URL}/api/instruments/${id}/certificate`, { method: 'PUT', body: form, headers: cookie ? { cookie } : {} });
   return { status: res.status, json: (await res.json().catch(() => ({}))) as Record<string, unknown> };
 }
@@ -228,7 +228,7 @@ describe('calibration certificates', () => {
     const [row] = await db.select().from(instruments).where(eq(instruments.id, lv.id));
     expect(row!.certificateKey).toMatch(/^certificates\/[0-9a-f-]{36}\.pdf$/);
 
-    const got = await fetch(`${APP_URL}/api/instruments/${lv.id}/certificate`, { headers: { cookie: cookies.technician } });
+    const got = await fetch(`${APP_URL}/api/instruments/${lv.id}/certificate`, { headers: { cookie: cookies.technician! } });
     expect(got.status).toBe(200);
     expect(got.headers.get('content-type')).toBe('application/pdf');
     expect(got.headers.get('content-disposition')).toBe('attachment; filename="Calibration 2026 LV.pdf"');
@@ -246,7 +246,7 @@ describe('calibration certificates', () => {
     expect(res.json.instrument).toMatchObject({ certificate: { name: 'scan.png', type: 'image/png' } });
     const [second] = await db.select().from(instruments).where(eq(instruments.id, lv.id));
     expect(second!.certificateKey).not.toBe(first!.certificateKey);
-    const got = await fetch(`${APP_URL}/api/instruments/${lv.id}/certificate`, { headers: { cookie: cookies.reviewer } });
+    const got = await fetch(`${APP_URL}/api/instruments/${lv.id}/certificate`, { headers: { cookie: cookies.reviewer! } });
     expect(got.headers.get('content-type')).toBe('image/png');
   });
 
@@ -272,7 +272,7 @@ describe('calibration certificates', () => {
     expect(res.json.field).toBe('file');
     const form = new FormData();
     form.set('other', 'x');
-    const res2 = await fetch(`${APP_URL}/api/instruments/${lv.id}/certificate`, { method: 'PUT', body: form, headers: { cookie: cookies.admin } });
+    const res2 = await fetch(`${APP_URL}/api/instruments/${lv.id}/certificate`, { method: 'PUT', body: form, headers: { cookie: cookies.admin! } });
     expect(res2.status).toBe(400);
   });
 

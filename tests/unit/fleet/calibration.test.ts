@@ -16,7 +16,7 @@ describe('calibrationStatus', () => {
     ['2026-03-01', '2026-02-28', 'due-soon', 'across the end of February 2026'],
     ['2024-03-01', '2024-02-29', 'due-soon', 'from a leap day'],
     ['2027-01-01', '2026-12-31', 'due-soon', 'across a year end'],
-  ] as const)('due %s seen on %s is %s (%s)', (due, today, expected) => {
+  ] as const)('due %s seen on %s is %s (%s)', (due, today, expected, _why) => {
     expect(calibrationStatus(due, today)).toBe(expected);
   });
 
