@@ -69,3 +69,14 @@ test('a signed-out visitor is sent to sign-in, and the API answers 401', async (
   const res = await page.request.get('/api/sessions');
   expect(res.status()).toBe(401);
 });
+
+test('signing out ends the session: pages go back to sign-in and the API answers 401', async ({ browser }) => {
+  const { context, page } = await signedIn(browser, 'expert');
+  expect((await page.request.get('/api/sessions')).status()).toBe(200);
+  await page.getByRole('button', { name: 'Sign out' }).click();
+  await page.waitForURL(/\/sign-in/);
+  expect((await page.request.get('/api/sessions')).status()).toBe(401);
+  await page.goto('/fleet');
+  await expect(page).toHaveURL(/\/sign-in\?callbackUrl=/);
+  await context.close();
+});
