@@ -11,7 +11,7 @@ const db = testDb();
 let org: OrgFixture;
 let other: OrgFixture;
 let siteId: string;
-const cookie: Record<string, string> = {};
+const cookie = {} as Record<'technician' | 'expert' | 'reviewer' | 'admin' | 'rivalAdmin', string>;
 
 beforeAll(async () => {
   org = await makeOrganisation(db, 'Fleet');
