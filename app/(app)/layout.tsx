@@ -13,6 +13,7 @@ export default async function AppLayout({ children }: { children: ReactNode }) {
     { href: '/fleet', label: 'Fleet' },
     { href: '/instruments', label: 'Instruments' },
     { href: '/visits', label: 'Visits' },
+    { href: '/due', label: 'Due' },
     ...(can(actor, 'user:manage') ? [{ href: '/admin/users', label: 'Users' }] : []),
     ...(can(actor, 'mailbox:read') && mailboxEnabled() ? [{ href: '/admin/mailbox', label: 'Mailbox' }] : []),
     { href: '/settings', label: 'Settings' },

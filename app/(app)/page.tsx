@@ -4,6 +4,9 @@ import { listSessionsByOrganisation } from '@/db/queries/sessions';
 import { can } from '@/lib/auth/policy';
 import { requirePageActor } from '@/lib/auth/session';
 import { MachinePicker } from '@/components/session/machine-picker';
+import { DueSummary } from '@/components/due/due-summary';
+import { countDueByStatus, getReminderDaysBefore } from '@/db/queries/due';
+import { todayUtc } from '@/lib/fleet/due';
 
 export const dynamic = 'force-dynamic';
 
@@ -18,11 +21,17 @@ const stateLabel: Record<string, string> = {
 
 export default async function HomePage() {
   const actor = await requirePageActor('/');
-  const sessions = await listSessionsByOrganisation(db(), { organisationId: actor.organisationId });
+  const organisationId = actor.organisationId;
+  const soonDays = await getReminderDaysBefore(db(), { organisationId });
+  const [sessions, due] = await Promise.all([
+    listSessionsByOrganisation(db(), { organisationId }),
+    countDueByStatus(db(), { organisationId, today: todayUtc(new Date()), soonDays }),
+  ]);
   const mayOpen = can(actor, 'session:open');
 
   return (
     <main className="mx-auto grid max-w-5xl gap-8 p-4 sm:p-6">
+      <DueSummary overdue={due.overdue} dueSoon={due.dueSoon} soonDays={soonDays} />
       <section aria-labelledby="sessions-h">
         <h1 id="sessions-h" className="text-2xl font-bold">
           Sessions
