@@ -1,6 +1,6 @@
 // `npm test`: a throwaway PostgreSQL, a production build served on :3100, then every test layer.
 // Ends with one plain line, `N passed, N failed`, totalled over the layers (CI reads that line).
-import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { spawn, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import { createDb } from '../db/client';
@@ -28,13 +28,21 @@ function readJson<T>(file: string): T | null {
   }
 }
 
-/** Runs vitest for one project; counts from its JSON report (a crash without a report counts as one failure). */
-function runVitest(project: string, env: Record<string, string>): void {
-  const out = `${reports}/${project}.json`;
-  const res = spawnSync('npx', ['vitest', 'run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${out}`], {
-    stdio: 'inherit',
-    env: { ...process.env, ...env },
+/**
+ * Runs a command to its end without blocking this process: the mail and object-store fakes live in this
+ * process's event loop and must keep answering while the tests run.
+ */
+function run(cmd: string, args: string[], env: Record<string, string>): Promise<{ status: number | null }> {
+  return new Promise((resolve) => {
+    const child = spawn(cmd, args, { stdio: 'inherit', env: { ...process.env, ...env } });
+    child.on('exit', (status) => resolve({ status }));
   });
+}
+
+/** Runs vitest for one project; counts from its JSON report (a crash without a report counts as one failure). */
+async function runVitest(project: string, env: Record<string, string>): Promise<void> {
+  const out = `${reports}/${project}.json`;
+  const res = await run('npx', ['vitest', 'run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${out}`], env);
   const r = readJson<{ numPassedTests: number; numFailedTests: number; numPendingTests: number; numTodoTests: number }>(out);
   if (!r) tallies.push({ layer: project, passed: 0, failed: 1, skipped: 0 });
   else {
@@ -43,12 +51,9 @@ function runVitest(project: string, env: Record<string, string>): void {
   }
 }
 
-function runPlaywright(env: Record<string, string>): void {
+async function runPlaywright(env: Record<string, string>): Promise<void> {
   const out = `${reports}/e2e.json`;
-  const res = spawnSync('npx', ['playwright', 'test', '--config', 'tests/e2e/playwright.config.ts'], {
-    stdio: 'inherit',
-    env: { ...process.env, ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: path.resolve(out) },
-  });
+  const res = await run('npx', ['playwright', 'test', '--config', 'tests/e2e/playwright.config.ts'], { ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: path.resolve(out) });
   const r = readJson<{ stats: { expected: number; unexpected: number; flaky: number; skipped: number } }>(out);
   if (!r) tallies.push({ layer: 'e2e', passed: 0, failed: 1, skipped: 0 });
   else {
@@ -57,13 +62,22 @@ function runPlaywright(env: Record<string, string>): void {
   }
 }
 
+// Interrupted (Ctrl-C, CI's end): stop what this run started before leaving.
+for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+  process.once(signal, () => {
+    server?.kill('SIGKILL');
+    cluster?.stop();
+    process.exit(130);
+  });
+}
+
 const t0 = performance.now();
 let server: ChildProcess | undefined;
 let cluster: Awaited<ReturnType<typeof prepareDatabase>> | undefined;
 let fakes: Fakes | undefined;
 let setupFailed = false;
 try {
-  if (wants('unit')) runVitest('unit', {});
+  if (wants('unit')) await runVitest('unit', {});
   if (wants('integration') || wants('e2e')) {
     cluster = await prepareDatabase({ name: 'pg-test', port: 54339, database: 'levelwire_test', fresh: true });
     const db = createDb(cluster.url, 2);
@@ -79,8 +93,8 @@ try {
     });
     await waitForHealth(APP_URL, server);
     const env = { ...fakes.env, DATABASE_URL: cluster.url, APP_URL, NEXTAUTH_SECRET: SECRET, CHROMIUM_PATH: chromium };
-    if (wants('integration')) runVitest('integration', env);
-    if (wants('e2e') && existsSync('tests/e2e/playwright.config.ts')) runPlaywright(env);
+    if (wants('integration')) await runVitest('integration', env);
+    if (wants('e2e') && existsSync('tests/e2e/playwright.config.ts')) await runPlaywright(env);
   }
 } catch (e) {
   setupFailed = true;

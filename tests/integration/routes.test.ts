@@ -115,7 +115,7 @@ describe('route handlers over HTTP', () => {
 
   it('lists the organisation’s machines and sessions only', async () => {
     const machines = await api('/api/machines', { cookie: cookies.outsider });
-    expect((machines.json.machines as { id: string }[]).map((m) => m.id)).toEqual([other.machineId]);
+    expect((machines.json.rows as { id: string }[]).map((m) => m.id)).toEqual([other.machineId]);
     const sessions = await api('/api/sessions', { cookie: cookies.outsider });
     expect(sessions.json.sessions).toEqual([]);
   });
