@@ -3,7 +3,8 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import bcrypt from 'bcryptjs';
 import { eq } from 'drizzle-orm';
-import { footprintTemplate, pitchMmOf } from '@/lib/fleet/footprint';
+import { footprintTemplate } from '@/lib/fleet/footprint';
+import { screwRow } from './queries/machines';
 import { createDb, type Db } from './client';
 import { contacts, customers, instruments, machines, organisations, screws, sites, users, visits } from './schema';
 
@@ -102,18 +103,7 @@ export async function seedDemo(db: Db, now = new Date()): Promise<boolean> {
           priorLeveledOn,
         })
         .returning();
-      await tx.insert(screws).values(
-        footprintTemplate(m.screws, m.span[0]!, m.span[1]!, thread).map((s) => ({
-          machineId: machine!.id,
-          label: s.label,
-          kind: s.kind,
-          xMm: s.xMm,
-          yMm: s.yMm,
-          pitchMm: pitchMmOf(s.thread),
-          threadTpi: s.thread.unit === 'tpi' ? s.thread.value : null,
-          specHeightMm: 80,
-        })),
-      );
+      await tx.insert(screws).values(footprintTemplate(m.screws, m.span[0]!, m.span[1]!, thread).map((s) => screwRow(machine!.id, { ...s, specHeightMm: 80 })));
       if (i === 0) {
         await tx.insert(visits).values({
           organisationId,

@@ -3,7 +3,8 @@ import type { Db } from '../client';
 import { instruments, type Instrument } from '../schema';
 import { AppError } from '@/lib/errors';
 import { likePattern, type ListQuery, type Page } from '@/lib/list-query';
-import { addDays, calibrationStatus, DUE_SOON_DAYS } from '@/lib/fleet/calibration';
+import { calibrationStatus, DUE_SOON_DAYS } from '@/lib/fleet/calibration';
+import { addDays } from '@/lib/dates';
 import type { InstrumentStatusFilter, InstrumentView } from '@/lib/fleet/instruments';
 import type { SlopeUnit } from '@/lib/leveling';
 

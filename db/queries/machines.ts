@@ -55,7 +55,7 @@ export async function getMachine(db: Db, { organisationId, id }: Org & { id: str
 export type MachineDetail = NonNullable<Awaited<ReturnType<typeof getMachine>>>;
 
 /** The screw row for a footprint entry (thread kept as given: pitch in mm, or tpi with its pitch). */
-function screwRow(machineId: string, s: ScrewInput) {
+export function screwRow(machineId: string, s: ScrewInput) {
   return {
     machineId,
     label: s.label,

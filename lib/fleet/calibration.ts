@@ -1,31 +1,11 @@
 import type { Role } from '@/db/schema';
+import { daysBetween } from '@/lib/dates';
 import { AppError } from '@/lib/errors';
 
 export type CalibrationStatus = 'current' | 'due-soon' | 'expired';
 
 /** Days before the due date from which an instrument shows as due soon. */
 export const DUE_SOON_DAYS = 30;
-
-const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
-
-/** Whole days since 1970-01-01 of a calendar date `YYYY-MM-DD` (no time zone: a date is a date). */
-function dayNumber(iso: string): number {
-  const m = ISO_DATE.exec(iso);
-  if (!m) throw new RangeError(`not a calendar date (YYYY-MM-DD): ${iso}`);
-  const ms = Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3]));
-  if (new Date(ms).toISOString().slice(0, 10) !== iso) throw new RangeError(`not a calendar date: ${iso}`);
-  return ms / 86_400_000;
-}
-
-/** The calendar date `days` after `iso` (negative goes back), as `YYYY-MM-DD`. */
-export function addDays(iso: string, days: number): string {
-  return new Date((dayNumber(iso) + days) * 86_400_000).toISOString().slice(0, 10);
-}
-
-/** Today's calendar date in UTC as `YYYY-MM-DD`; routes pass it on so the rules stay pure. */
-export function todayIso(now: Date = new Date()): string {
-  return now.toISOString().slice(0, 10);
-}
 
 /**
  * The calibration status of an instrument on `today`. The due date is the last day the certificate
@@ -34,7 +14,7 @@ export function todayIso(now: Date = new Date()): string {
  * included; more than `soonDays` days left is 'current'. Dates are `YYYY-MM-DD` calendar dates.
  */
 export function calibrationStatus(dueOn: string, today: string, soonDays = DUE_SOON_DAYS): CalibrationStatus {
-  const left = dayNumber(dueOn) - dayNumber(today);
+  const left = daysBetween(today, dueOn);
   if (left < 0) return 'expired';
   return left <= soonDays ? 'due-soon' : 'current';
 }

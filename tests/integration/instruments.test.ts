@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import { eq } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { instruments } from '@/db/schema';
-import { addDays, todayIso } from '@/lib/fleet/calibration';
+import { addDays, todayUtc } from '@/lib/dates';
 import { makeOrganisation, testDb, type OrgFixture } from './helpers/fixtures';
 import { api, APP_URL, signInOverHttp } from './helpers/http';
 
@@ -10,7 +10,7 @@ const db = testDb();
 let org: OrgFixture;
 let other: OrgFixture;
 const cookies = {} as Record<string, string>;
-const today = todayIso();
+const today = todayUtc();
 
 const level = (patch: Record<string, unknown> = {}) => ({
   kind: 'level',

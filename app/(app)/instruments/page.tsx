@@ -3,7 +3,7 @@ import Link from 'next/link';
 import { InstrumentsTable } from '@/components/instruments/instruments-table';
 import { can } from '@/lib/auth/policy';
 import { requirePageActor } from '@/lib/auth/session';
-import { todayIso } from '@/lib/fleet/calibration';
+import { todayUtc } from '@/lib/dates';
 
 export const metadata: Metadata = { title: 'Instruments' };
 export const dynamic = 'force-dynamic';
@@ -23,7 +23,7 @@ export default async function InstrumentsPage() {
           </Link>
         )}
       </div>
-      <InstrumentsTable unitSystem={actor.unitSystem} today={todayIso()} />
+      <InstrumentsTable unitSystem={actor.unitSystem} today={todayUtc()} />
     </main>
   );
 }

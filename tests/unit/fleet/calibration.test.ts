@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { AppError } from '@/lib/errors';
-import { addDays, assertUsable, calibrationStatus, todayIso } from '@/lib/fleet/calibration';
+import { assertUsable, calibrationStatus } from '@/lib/fleet/calibration';
+import { addDays, todayUtc } from '@/lib/dates';
 
 // The rule under test is Levelwire's own (no outside source): a calibration certificate's due date is the
 // last day it covers, so an instrument is usable through its due date and expired from the next day;
@@ -33,7 +34,7 @@ describe('calibrationStatus', () => {
   });
 });
 
-describe('addDays and todayIso', () => {
+describe('addDays and todayUtc', () => {
   it.each([
     ['2024-02-28', 1, '2024-02-29'],
     ['2026-02-28', 1, '2026-03-01'],
@@ -45,8 +46,8 @@ describe('addDays and todayIso', () => {
   });
 
   it('reads the calendar date in UTC', () => {
-    expect(todayIso(new Date('2026-03-10T23:59:59.999Z'))).toBe('2026-03-10');
-    expect(todayIso(new Date('2026-03-11T00:00:00Z'))).toBe('2026-03-11');
+    expect(todayUtc(new Date('2026-03-10T23:59:59.999Z'))).toBe('2026-03-10');
+    expect(todayUtc(new Date('2026-03-11T00:00:00Z'))).toBe('2026-03-11');
   });
 });
 

@@ -11,7 +11,7 @@ import { InstrumentForm } from '@/components/instruments/instrument-form';
 import { RetireButton } from '@/components/instruments/retire-button';
 import { can } from '@/lib/auth/policy';
 import { requirePageActor } from '@/lib/auth/session';
-import { todayIso } from '@/lib/fleet/calibration';
+import { todayUtc } from '@/lib/dates';
 
 export const metadata: Metadata = { title: 'Instrument' };
 export const dynamic = 'force-dynamic';
@@ -22,7 +22,7 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
   if (!z.uuid().safeParse(id).success) notFound();
   const row = await getInstrumentForOrganisation(db(), { instrumentId: id, organisationId: actor.organisationId });
   if (!row) notFound();
-  const today = todayIso();
+  const today = todayUtc();
   const instrument = toInstrumentView(row, today);
   const mayWrite = can(actor, 'instrument:write');
 

@@ -9,7 +9,8 @@ import { VisitInstruments } from '@/components/visits/visit-instruments';
 import { VisitStateChip } from '@/components/visits/visit-state-chip';
 import { can } from '@/lib/auth/policy';
 import { requirePageActor } from '@/lib/auth/session';
-import { calibrationStatus, todayIso } from '@/lib/fleet/calibration';
+import { calibrationStatus } from '@/lib/fleet/calibration';
+import { todayUtc } from '@/lib/dates';
 import { timeInWords } from '@/lib/fleet/visits';
 
 export const metadata: Metadata = { title: 'Visit' };
@@ -24,7 +25,7 @@ export default async function VisitPage({ params }: { params: Promise<{ id: stri
   const detail = await getVisit(db(), { organisationId: actor.organisationId, id });
   if (!detail) notFound();
   const { visit, machine, site, customerName, technician, expert } = detail;
-  const today = todayIso();
+  const today = todayUtc();
   const isAdmin = can(actor, 'visit:write');
   const open = visit.state === 'scheduled' || visit.state === 'in_progress';
   const mayChangeInstruments = open && (isAdmin || actor.id === visit.technicianId);
@@ -32,7 +33,7 @@ export default async function VisitPage({ params }: { params: Promise<{ id: stri
     listVisitInstruments(db(), { visitId: id }),
     mayChangeInstruments ? listActiveInstruments(db(), { organisationId: actor.organisationId }) : Promise.resolve([]),
   ]);
-  const visitDay = todayIso(visit.scheduledFor);
+  const visitDay = todayUtc(visit.scheduledFor);
   const onDay = visitDay > today ? visitDay : today;
 
   return (

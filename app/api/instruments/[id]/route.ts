@@ -4,7 +4,7 @@ import { getInstrumentForOrganisation, toInstrumentView } from '@/db/queries/ins
 import { assertCan } from '@/lib/auth/policy';
 import { requireActor } from '@/lib/auth/session';
 import { AppError } from '@/lib/errors';
-import { todayIso } from '@/lib/fleet/calibration';
+import { todayUtc } from '@/lib/dates';
 import { changeInstrument } from '@/lib/fleet/instruments-service';
 import { jsonBody, parseWith, route } from '@/lib/http';
 import { instrumentParams, instrumentPatch } from '../schema';
@@ -17,7 +17,7 @@ export const GET = route<Ctx>('instrument', async (_req, { params }) => {
   assertCan(actor, 'instrument:read');
   const row = await getInstrumentForOrganisation(db(), { instrumentId: id, organisationId: actor.organisationId });
   if (!row) throw new AppError('not_found:instrument', 'No such instrument');
-  return NextResponse.json({ instrument: toInstrumentView(row, todayIso()) });
+  return NextResponse.json({ instrument: toInstrumentView(row, todayUtc()) });
 });
 
 /** Changes an instrument (admin); `active: false` retires it. */
@@ -27,5 +27,5 @@ export const PATCH = route<Ctx>('instrument', async (req, { params }) => {
   const patch = parseWith(instrumentPatch, await jsonBody(req, 'instrument'), 'instrument');
   assertCan(actor, 'instrument:write');
   const row = await changeInstrument(db(), { organisationId: actor.organisationId, instrumentId: id, patch });
-  return NextResponse.json({ instrument: toInstrumentView(row, todayIso()) });
+  return NextResponse.json({ instrument: toInstrumentView(row, todayUtc()) });
 });

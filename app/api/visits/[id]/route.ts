@@ -4,7 +4,8 @@ import { getVisit, listVisitInstruments, updateVisit } from '@/db/queries/visits
 import { assertCan } from '@/lib/auth/policy';
 import { requireActor } from '@/lib/auth/session';
 import { AppError } from '@/lib/errors';
-import { calibrationStatus, todayIso } from '@/lib/fleet/calibration';
+import { calibrationStatus } from '@/lib/fleet/calibration';
+import { todayUtc } from '@/lib/dates';
 import { notifyVisit } from '@/lib/fleet/reminders';
 import { jsonBody, parseWith, route } from '@/lib/http';
 import { updateVisitInput, visitParams } from '../schema';
@@ -17,7 +18,7 @@ export const GET = route<Ctx>('visit', async (_req, { params }) => {
   assertCan(actor, 'visit:read');
   const visit = await getVisit(db(), { organisationId: actor.organisationId, id });
   if (!visit) throw new AppError('not_found:visit', 'No such visit');
-  const today = todayIso();
+  const today = todayUtc();
   const chosen = await listVisitInstruments(db(), { visitId: id });
   return NextResponse.json({
     ...visit,

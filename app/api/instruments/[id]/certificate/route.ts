@@ -4,7 +4,7 @@ import { getInstrumentForOrganisation, toInstrumentView } from '@/db/queries/ins
 import { assertCan } from '@/lib/auth/policy';
 import { requireActor } from '@/lib/auth/session';
 import { AppError } from '@/lib/errors';
-import { todayIso } from '@/lib/fleet/calibration';
+import { todayUtc } from '@/lib/dates';
 import { storeCertificate } from '@/lib/fleet/instruments-service';
 import { parseWith, route } from '@/lib/http';
 import { getObject, MAX_UPLOAD_BYTES } from '@/lib/storage';
@@ -39,7 +39,7 @@ export const PUT = route<Ctx>('upload', async (req, { params }) => {
   const file = await uploadedFile(req);
   assertCan(actor, 'instrument:write');
   const row = await storeCertificate(db(), { organisationId: actor.organisationId, instrumentId: id, file });
-  return NextResponse.json({ instrument: toInstrumentView(row, todayIso()) });
+  return NextResponse.json({ instrument: toInstrumentView(row, todayUtc()) });
 });
 
 /** The certificate's bytes, always as a download (never rendered inline). */

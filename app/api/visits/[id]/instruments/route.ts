@@ -3,7 +3,8 @@ import { db } from '@/db/client';
 import { addVisitInstrument, getInstrumentForVisit } from '@/db/queries/visits';
 import { requireActor } from '@/lib/auth/session';
 import { AppError } from '@/lib/errors';
-import { assertUsable, todayIso } from '@/lib/fleet/calibration';
+import { assertUsable } from '@/lib/fleet/calibration';
+import { todayUtc } from '@/lib/dates';
 import { jsonBody, parseWith, route } from '@/lib/http';
 import { visitInstrumentInput, visitParams } from '../../schema';
 import { visitForInstruments } from './access';
@@ -18,8 +19,8 @@ export const POST = route<Ctx>('visit', async (req, { params }) => {
   const visit = await visitForInstruments(db(), actor, id);
   const instrument = await getInstrumentForVisit(db(), { organisationId: actor.organisationId, id: input.instrumentId });
   if (!instrument) throw new AppError('not_found:instrument', 'No such instrument');
-  const today = todayIso();
-  const visitDay = todayIso(visit.visit.scheduledFor);
+  const today = todayUtc();
+  const visitDay = todayUtc(visit.visit.scheduledFor);
   const onDay = visitDay > today ? visitDay : today;
   const { status, overridden } = assertUsable(instrument, onDay, input.overrideReason ? { byRole: actor.role, reason: input.overrideReason } : undefined);
   const row = await addVisitInstrument(db(), {
