@@ -4,6 +4,7 @@ import { randomUUID } from 'node:crypto';
 import { performance } from 'node:perf_hooks';
 import { sql } from 'drizzle-orm';
 import { createDb } from '../db/client';
+import { countDueByStatus, listDueMachines } from '../db/queries/due';
 import { listMachines } from '../db/queries/machines';
 import { customers, machines, organisations, screws, sites } from '../db/schema';
 import { DEMO_ORGANISATION, seedDemo } from '../db/seed';
@@ -48,22 +49,36 @@ try {
     { name: 'first page, by screw count', q: { q: '', sort: 'screws', dir: 'desc', page: 1, pageSize: 25 } },
   ] as const;
 
-  const time = async (organisationId: string, q: (typeof cases)[number]['q']) => {
+  const today = new Date().toISOString().slice(0, 10);
+  const dueCases = [
+    { name: 'due list: overdue first (default view)', run: (organisationId: string) => listDueMachines(db, { organisationId, today, soonDays: 14, status: 'all', q: '', sort: 'nextDue', dir: 'asc', page: 1, pageSize: 25 }) },
+    { name: 'due list: page 200, by customer desc', run: (organisationId: string) => listDueMachines(db, { organisationId, today, soonDays: 14, status: 'all', q: '', sort: 'customer', dir: 'desc', page: 200, pageSize: 25 }) },
+    { name: 'due counts (start page summary)', run: (organisationId: string) => countDueByStatus(db, { organisationId, today, soonDays: 14 }) },
+  ];
+
+  const sample = async (call: () => Promise<unknown>) => {
     const samples: number[] = [];
     for (let r = 0; r < RUNS + 5; r++) {
       const s = performance.now();
-      await listMachines(db, { organisationId, ...q } as never);
+      await call();
       if (r >= 5) samples.push(performance.now() - s);
     }
     samples.sort((a, b) => a - b);
     return { p50: samples[Math.floor(RUNS / 2)]!, p95: samples[Math.floor(RUNS * 0.95)]! };
   };
 
-  console.log(`| query (listMachines: rows + count) | ${25} machines p50 ms | ${COUNT.toLocaleString('en')} machines p50 ms | p95 ms | ratio p50 |`);
+  const time = (organisationId: string, q: (typeof cases)[number]['q']) => sample(() => listMachines(db, { organisationId, ...q } as never));
+
+  console.log(`| query (rows + count) | ${25} machines p50 ms | ${COUNT.toLocaleString('en')} machines p50 ms | p95 ms | ratio p50 |`);
   console.log('|---|---|---|---|---|');
   for (const c of cases) {
     const base = await time(demo!.id, c.q);
     const big = await time(org!.id, c.q);
+    console.log(`| machines: ${c.name} | ${base.p50.toFixed(2)} | ${big.p50.toFixed(2)} | ${big.p95.toFixed(2)} | ${(big.p50 / base.p50).toFixed(1)}x |`);
+  }
+  for (const c of dueCases) {
+    const base = await sample(() => c.run(demo!.id));
+    const big = await sample(() => c.run(org!.id));
     console.log(`| ${c.name} | ${base.p50.toFixed(2)} | ${big.p50.toFixed(2)} | ${big.p95.toFixed(2)} | ${(big.p50 / base.p50).toFixed(1)}x |`);
   }
   console.log(`\n${RUNS} timed runs per cell after 5 warm-up runs; PostgreSQL on loopback, Node ${process.version}.`);
