@@ -15,3 +15,9 @@ export function displayToMm(value: number, system: UnitSystem): number {
 
 /** Drag step in the footprint editor: 5 mm, or a quarter inch. */
 export const snapMm = (system: UnitSystem) => (system === 'inch' ? 6.35 : 5);
+
+/** A position along the travel, signed, in the user's unit: "+9.8 in" or "-250 mm". */
+export function formatPosition(mm: number, system: UnitSystem): string {
+  const v = system === 'inch' ? convertLength(mm, 'mm', 'in').toFixed(1) : String(Math.round(mm));
+  return `${mm > 0 ? '+' : ''}${v} ${lengthUnit(system)}`;
+}

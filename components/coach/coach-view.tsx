@@ -1,6 +1,7 @@
 'use client';
 
 import { useState } from 'react';
+import { formatPosition } from '@/lib/display-units';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
 import { LinkBadge } from '@/components/session/link-badge';
 import { useSessionLog } from '@/components/session/use-session-log';
@@ -59,7 +60,7 @@ export function CoachView({ sessionId, screws, unitSystem, machineLabel, technic
           <ol className="mt-2 grid max-h-[50vh] gap-1 overflow-auto" data-testid="reading-feed">
             {[...state.readings].reverse().map((r) => (
               <li key={r.seq} className="flex justify-between gap-2 rounded-lg bg-paper px-3 py-2 tabular">
-                <span>#{r.seq} {r.axis.toUpperCase()} @ {r.positionMm} mm</span>
+                <span>#{r.seq} {r.axis.toUpperCase()} @ {formatPosition(r.positionMm, unitSystem)}</span>
                 <span>{r.divisions > 0 ? '+' : ''}{r.divisions} div</span>
               </li>
             ))}

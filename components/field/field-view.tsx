@@ -1,6 +1,7 @@
 'use client';
 
 import { useState } from 'react';
+import { formatPosition } from '@/lib/display-units';
 import { fromZod } from '@/lib/errors';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
 import { levelReadingInput } from '@/lib/session/commands';
@@ -96,7 +97,7 @@ export function FieldView({ sessionId, travelYMm, unitSystem, machineLabel }: Pr
                 className={`min-h-14 rounded-lg border-2 border-ink font-bold ${positionMm === s.mm ? 'bg-steel text-paper' : 'bg-card'}`}
               >
                 {s.label}
-                <span className="block text-sm font-normal tabular">{s.mm > 0 ? '+' : ''}{s.mm} mm</span>
+                <span className="block text-sm font-normal tabular">{formatPosition(s.mm, unitSystem)}</span>
               </button>
             ))}
           </div>
@@ -135,7 +136,7 @@ export function FieldView({ sessionId, travelYMm, unitSystem, machineLabel }: Pr
             <li key={r.seq} className="grid grid-cols-[auto_1fr] gap-x-3 rounded-lg bg-card px-3 py-2">
               <span className="tabular row-span-2 self-center text-ink-soft">#{r.seq}</span>
               <span className="font-semibold">
-                {r.axis.toUpperCase()} · {stationName(r.positionMm)} <span className="tabular font-normal text-ink-soft">({r.positionMm} mm)</span>
+                {r.axis.toUpperCase()} · {stationName(r.positionMm)} <span className="tabular font-normal text-ink-soft">({formatPosition(r.positionMm, unitSystem)})</span>
               </span>
               <span className="tabular">
                 {r.divisions > 0 ? '+' : ''}
