@@ -1,5 +1,7 @@
 'use client';
 
+import { useMutation } from '@tanstack/react-query';
+import { useRouter } from 'next/navigation';
 import { SchemaForm } from '@/components/ui/schema-form';
 import { contactInput, customerInput, siteInput } from '@/lib/fleet/customers';
 
@@ -53,5 +55,70 @@ export function NewSiteForm({ customerId }: { customerId: string }) {
       submitLabel="Add site"
       resetOnSuccess
     />
+  );
+}
+
+export function EditCustomerForm({ customer }: { customer: { id: string; name: string; notes: string } }) {
+  return (
+    <SchemaForm
+      schema={customerInput}
+      fields={[
+        { name: 'name', label: 'Customer name' },
+        { name: 'notes', label: 'Notes', kind: 'textarea' },
+      ]}
+      defaultValues={{ name: customer.name, notes: customer.notes }}
+      action={{ url: `/api/customers/${customer.id}`, method: 'PATCH' }}
+      submitLabel="Save customer"
+    />
+  );
+}
+
+const siteFields = siteInput.omit({ customerId: true });
+
+export function EditSiteForm({ site }: { site: { id: string; name: string; address: string; floorNotes: string; accessNotes: string } }) {
+  return (
+    <SchemaForm
+      schema={siteFields}
+      fields={[
+        { name: 'name', label: 'Site name' },
+        { name: 'address', label: 'Address' },
+        { name: 'floorNotes', label: 'Floor and foundation', kind: 'textarea' },
+        { name: 'accessNotes', label: 'Access', kind: 'textarea' },
+      ]}
+      defaultValues={{ name: site.name, address: site.address, floorNotes: site.floorNotes, accessNotes: site.accessNotes }}
+      action={{ url: `/api/sites/${site.id}`, method: 'PATCH' }}
+      submitLabel="Save site"
+    />
+  );
+}
+
+export function EditContactForm({ contact }: { contact: { id: string; name: string; position: string; email: string; phone: string; receivesReports: boolean } }) {
+  const router = useRouter();
+  const remove = useMutation({
+    mutationFn: () => fetch(`/api/contacts/${contact.id}`, { method: 'DELETE' }).then((r) => {
+      if (!r.ok) throw new Error(`Could not remove (${r.status})`);
+    }),
+    onSuccess: () => router.refresh(),
+  });
+  return (
+    <div className="grid gap-3">
+      <SchemaForm
+        schema={contactInput}
+        fields={[
+          { name: 'name', label: 'Name' },
+          { name: 'position', label: 'Position' },
+          { name: 'email', label: 'E-mail', kind: 'email' },
+          { name: 'phone', label: 'Phone' },
+          { name: 'receivesReports', label: 'Receives the service reports', kind: 'checkbox' },
+        ]}
+        defaultValues={{ name: contact.name, position: contact.position, email: contact.email, phone: contact.phone, receivesReports: contact.receivesReports }}
+        action={{ url: `/api/contacts/${contact.id}`, method: 'PATCH' }}
+        submitLabel="Save contact"
+      />
+      <button type="button" onClick={() => remove.mutate()} disabled={remove.isPending} className="min-h-12 justify-self-start rounded-lg px-3 font-semibold text-fail underline underline-offset-4 hover:bg-fail/10">
+        Remove {contact.name}
+      </button>
+      {remove.error && <p role="alert" className="text-fail">{remove.error.message}</p>}
+    </div>
   );
 }

@@ -56,3 +56,18 @@ test('a machine CSV with a bad row is refused whole, naming the line and column'
   await expect(page.getByRole('row').filter({ hasText: serial })).toContainText('CSV VMC (demo)');
   await context.close();
 });
+
+test('an admin edits a site’s floor notes on the customer page and the change is kept', async ({ browser }) => {
+  const { context, page } = await signedIn(browser, 'admin');
+  const note = `Slab re-poured, re-check in 3 months (${Date.now().toString(36)})`;
+  await page.goto('/fleet/customers');
+  await page.getByRole('link', { name: /Ashgrove Tooling Co-op/ }).click();
+  const site = page.getByRole('listitem').filter({ hasText: 'Ashgrove annexe' });
+  await site.getByText('Edit', { exact: true }).click();
+  await site.getByLabel('Floor and foundation').fill(note);
+  await site.getByRole('button', { name: 'Save site' }).click();
+  await expect(site.getByRole('status')).toHaveText('Saved.');
+  await page.reload();
+  await expect(page.getByRole('listitem').filter({ hasText: 'Ashgrove annexe' })).toContainText(note);
+  await context.close();
+});
