@@ -2,7 +2,7 @@
 
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { flexRender, getCoreRowModel, useReactTable, type ColumnDef, type SortingState } from '@tanstack/react-table';
-import { useState, type ReactNode } from 'react';
+import { useEffect, useState, type ReactNode } from 'react';
 import { apiFetch } from '@/components/session/api';
 import type { Page } from '@/lib/list-query';
 
@@ -26,6 +26,9 @@ export function DataTable<T>({ endpoint, queryKey, columns, initialSort, filterL
   const [sorting, setSorting] = useState<SortingState>(initialSort);
   const [q, setQ] = useState('');
   const [page, setPage] = useState(1);
+  // A new outside filter starts again at page 1 (page 7 of the old filter may not exist).
+  const paramsKey = JSON.stringify(params);
+  useEffect(() => setPage(1), [paramsKey]);
   const sort = sorting[0];
   const search = new URLSearchParams({ q, page: String(page), pageSize: String(pageSize), ...(sort ? { sort: sort.id, dir: sort.desc ? 'desc' : 'asc' } : {}), ...params });
   const { data, isFetching, error } = useQuery({
