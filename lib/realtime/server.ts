@@ -16,7 +16,7 @@ const handlers = [sessionJoinHandler, sessionLeaveHandler, readingSubmitHandler]
  * session cookie of an active user; every command is then checked by its handler.
  */
 export function attachRealtime(httpServer: HttpServer, deps: RealtimeDeps & { secret: string }) {
-  const io: IoServer = new Server(httpServer, { path: SOCKET_PATH, serveClient: false, connectionStateRecovery: undefined });
+  const io: IoServer = new Server(httpServer, { path: SOCKET_PATH, serveClient: false });
 
   io.use(async (socket, next) => {
     try {
