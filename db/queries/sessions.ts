@@ -14,6 +14,15 @@ export async function getSessionForOrganisation(db: Db, { sessionId, organisatio
   return session ?? null;
 }
 
+/** Just what recording a reading needs to check (the hot path): no machine, footprint or site. */
+export async function getSessionHeader(db: Db, { sessionId, organisationId }: { sessionId: string; organisationId: string }) {
+  const [row] = await db
+    .select({ id: levelingSessions.id, technicianId: levelingSessions.technicianId, state: levelingSessions.state, levelDivisionUrad: levelingSessions.levelDivisionUrad })
+    .from(levelingSessions)
+    .where(and(eq(levelingSessions.id, sessionId), eq(levelingSessions.organisationId, organisationId)));
+  return row ?? null;
+}
+
 export async function listSessionsByOrganisation(db: Db, { organisationId, limit = 50 }: { organisationId: string; limit?: number }) {
   return db
     .select({

@@ -1,6 +1,6 @@
 import type { Db } from '@/db/client';
 import { appendEvent } from '@/db/queries/events';
-import { getSessionForOrganisation } from '@/db/queries/sessions';
+import { getSessionForOrganisation, getSessionHeader } from '@/db/queries/sessions';
 import type { Actor } from '@/lib/auth/actor';
 import { assertCan } from '@/lib/auth/policy';
 import { AppError } from '@/lib/errors';
@@ -22,7 +22,9 @@ export async function loadSessionFor(db: Db, actor: Actor, sessionId: string) {
  * session's level, appends the event, then broadcasts it (after the commit). Idempotent by command id.
  */
 export async function recordReading(db: Db, actor: Actor, cmd: ReadingSubmit): Promise<{ event: SessionEvent; duplicate: boolean }> {
-  const session = await loadSessionFor(db, actor, cmd.sessionId);
+  assertCan(actor, 'session:view');
+  const session = await getSessionHeader(db, { sessionId: cmd.sessionId, organisationId: actor.organisationId });
+  if (!session) throw new AppError('not_found:session', 'No such session');
   assertCan(actor, 'reading:submit');
   if (session.technicianId !== actor.id) {
     throw new AppError('forbidden:reading', 'Only the session’s technician records readings');

@@ -1,7 +1,7 @@
 'use client';
 
 import { Canvas, useThree } from '@react-three/fiber';
-import { useEffect, useLayoutEffect, useMemo, useRef } from 'react';
+import { useEffect, useLayoutEffect, useMemo } from 'react';
 import { BufferGeometry, PlaneGeometry } from 'three';
 import { OrbitControls } from 'three/examples/jsm/controls/OrbitControls.js';
 
@@ -23,28 +23,31 @@ function heightM(p: SceneProps, xMm: number, yMm: number): number {
 }
 
 function Controls() {
-  const { camera, gl } = useThree();
+  const { camera, gl, invalidate } = useThree();
   useEffect(() => {
     const controls = new OrbitControls(camera, gl.domElement);
     controls.enableDamping = false;
     controls.maxPolarAngle = Math.PI / 2.1;
+    // The scene is drawn on demand: only when the base model changes or the view is turned.
+    controls.addEventListener('change', () => invalidate());
     return () => controls.dispose();
-  }, [camera, gl]);
+  }, [camera, gl, invalidate]);
   return null;
 }
 
 function BaseSurface(p: SceneProps & { halfX: number; halfY: number }) {
   const geometry = useMemo<BufferGeometry>(() => new PlaneGeometry(p.halfX * 2 * MM, p.halfY * 2 * MM, 24, 24).rotateX(-Math.PI / 2), [p.halfX, p.halfY]);
-  const ref = useRef(geometry);
+  const invalidate = useThree((state) => state.invalidate);
   useLayoutEffect(() => {
-    const pos = ref.current.getAttribute('position');
+    const pos = geometry.getAttribute('position');
     for (let i = 0; i < pos.count; i++) {
       const xMm = pos.getX(i) / MM;
       const yMm = -pos.getZ(i) / MM;
       pos.setY(i, heightM(p, xMm, yMm));
     }
     pos.needsUpdate = true;
-    ref.current.computeVertexNormals();
+    geometry.computeVertexNormals();
+    invalidate();
   });
   return (
     <mesh geometry={geometry} castShadow receiveShadow>
@@ -59,7 +62,7 @@ export function BaseScene(p: SceneProps) {
   const halfY = Math.max(300, ...p.screws.map((s) => Math.abs(s.yMm))) + 150;
   const span = Math.max(halfX, halfY) * MM;
   return (
-    <Canvas camera={{ position: [span * 1.6, span * 1.3, span * 2.1], fov: 40 }} shadows dpr={[1, 2]} data-testid="tilt-canvas">
+    <Canvas frameloop="demand" camera={{ position: [span * 1.6, span * 1.3, span * 2.1], fov: 40 }} shadows dpr={[1, 2]} data-testid="tilt-canvas">
       <color attach="background" args={['#e9e6dc']} />
       <ambientLight intensity={0.7} />
       <directionalLight position={[2, 4, 3]} intensity={1.6} castShadow />

@@ -8,6 +8,8 @@ export class FieldPage {
   /** Opens a new session for the walkthrough machine from the start page and returns its id. */
   async openNewSession(): Promise<string> {
     await this.page.goto('/');
+    // The machine count appears once the picker runs in the browser; typing before that could be lost.
+    await this.page.getByText(/^(Showing \d+ of|\d+ machines?\.)/).waitFor();
     await this.page.getByLabel(/^Find a machine/).fill(DEMO_MACHINE_SERIAL);
     await this.page.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL }).getByRole('button', { name: 'Start leveling' }).click();
     await this.page.waitForURL(/\/sessions\/[0-9a-f-]{36}\/field$/);

@@ -36,6 +36,8 @@ export class FleetPage {
 
   async importCsv(name: string, text: string) {
     await this.page.goto('/fleet');
+    // The list's count appears only once the page runs in the browser: before that the file input has no handler.
+    await this.page.getByRole('status').filter({ hasText: /in all/ }).waitFor();
     await this.page.locator('input[type="file"]').setInputFiles({ name, mimeType: 'text/csv', buffer: Buffer.from(text) });
   }
 }
