@@ -8,14 +8,31 @@ import { apiFetch, ApiError } from '@/components/session/api';
 import { Button } from '@/components/ui/button';
 import { FormField, inputClass } from '@/components/ui/form-field';
 import { instrumentInput, SLOPE_UNIT_LABELS, SLOPE_UNITS, type InstrumentFormValues, type InstrumentInput, type InstrumentView } from '@/lib/fleet/instruments';
+import { convertLength, type UnitSystem } from '@/lib/leveling/units';
 import { INSTRUMENTS_KEY } from './instruments-table';
 
 /** Empty text is "not given"; anything else must be a number (NaN is refused by the schema as "must be a number"). */
 const asNumber = (v: unknown) => (v === '' || v == null ? null : Number(v));
 const asDate = (v: unknown) => (v === '' || v == null ? null : String(v));
 
+type Lengths = { resolutionUm?: number | null; rangeMm?: number | null };
+
+/** An indicator's resolution and range as the user types them: inches for the inch system, µm and mm for metric. */
+function lengthsShown<T extends Lengths>(v: T, u: UnitSystem): T {
+  if (u === 'metric') return v;
+  const conv = (x: number | null | undefined, from: 'um' | 'mm') => (x == null || !Number.isFinite(x) ? x : Math.round(convertLength(x, from, 'in') * 1e6) / 1e6);
+  return { ...v, resolutionUm: conv(v.resolutionUm, 'um'), rangeMm: conv(v.rangeMm, 'mm') };
+}
+
+/** The typed figures back to what is stored (µm, mm); a blank or non-number passes through for the schema to name. */
+function lengthsStored<T extends Lengths>(v: T, u: UnitSystem): T {
+  if (u === 'metric') return v;
+  const conv = (x: number | null | undefined, to: 'um' | 'mm') => (x == null || !Number.isFinite(x) ? x : convertLength(x, 'in', to));
+  return { ...v, resolutionUm: conv(v.resolutionUm, 'um'), rangeMm: conv(v.rangeMm, 'mm') };
+}
+
 /** Adds an instrument (no `instrument`) or changes one (admin only); checked by the same schema as the route. */
-export function InstrumentForm({ instrument }: { instrument?: InstrumentView }) {
+export function InstrumentForm({ instrument, unitSystem }: { instrument?: InstrumentView; unitSystem: UnitSystem }) {
   const router = useRouter();
   const queryClient = useQueryClient();
   const {
@@ -26,10 +43,11 @@ export function InstrumentForm({ instrument }: { instrument?: InstrumentView }) 
     formState: { errors, isDirty },
     reset,
   } = useForm<InstrumentFormValues, unknown, InstrumentInput>({
-    resolver: zodResolver(instrumentInput),
+    // The form holds the user's units; the shared schema checks the stored ones.
+    resolver: (values, context, options) => zodResolver(instrumentInput)(lengthsStored(values, unitSystem), context, options),
     shouldUnregister: true,
     defaultValues: instrument
-      ? {
+      ? lengthsShown({
           kind: instrument.kind,
           model: instrument.model,
           serial: instrument.serial,
@@ -40,7 +58,7 @@ export function InstrumentForm({ instrument }: { instrument?: InstrumentView }) 
           rangeMm: instrument.rangeMm,
           calibratedOn: instrument.calibratedOn,
           calibrationDue: instrument.calibrationDue,
-        }
+        }, unitSystem)
       : { kind: 'level', sensitivityUnit: 'mm/m', vialCount: 2 },
   });
   const kind = watch('kind');
@@ -53,7 +71,7 @@ export function InstrumentForm({ instrument }: { instrument?: InstrumentView }) 
     onSuccess: async ({ instrument: saved }, values) => {
       await queryClient.invalidateQueries({ queryKey: INSTRUMENTS_KEY });
       if (instrument) {
-        reset(values);
+        reset(lengthsShown(values, unitSystem));
         router.refresh();
       } else {
         router.push(`/instruments/${saved.id}`);
@@ -107,10 +125,10 @@ export function InstrumentForm({ instrument }: { instrument?: InstrumentView }) 
           </>
         ) : (
           <>
-            <FormField label="Resolution (µm)" error={err('resolutionUm')} hint="Smallest graduation; 0.0001 in is 2.54 µm">
+            <FormField label={`Resolution (${unitSystem === 'inch' ? 'in' : 'µm'})`} error={err('resolutionUm')} hint={unitSystem === 'inch' ? 'Smallest graduation, e.g. 0.0001' : 'Smallest graduation; 0.0001 in is 2.54 µm'}>
               <input {...register('resolutionUm', { setValueAs: asNumber })} inputMode="decimal" className={inputClass} aria-invalid={Boolean(errors.resolutionUm)} />
             </FormField>
-            <FormField label="Range (mm)" error={err('rangeMm')}>
+            <FormField label={`Range (${unitSystem === 'inch' ? 'in' : 'mm'})`} error={err('rangeMm')}>
               <input {...register('rangeMm', { setValueAs: asNumber })} inputMode="decimal" className={inputClass} aria-invalid={Boolean(errors.rangeMm)} />
             </FormField>
           </>

@@ -57,3 +57,27 @@ test('a technician reads instruments but is offered no upload or change', async 
   await expect(tech.page.getByRole('button', { name: 'Save changes' })).toHaveCount(0);
   await tech.context.close();
 });
+
+test('an admin who works in inches enters an indicator’s resolution and range in inches; they are stored in µm and mm', async ({ browser }) => {
+  const admin = await signedIn(browser, 'admin', { width: 1024, height: 768 });
+  const { page } = admin;
+  const serial = `E2E-IND-${Date.now().toString(36).toUpperCase()}`;
+  await page.goto('/instruments/new');
+  await page.getByLabel('Kind').selectOption('indicator');
+  await page.getByLabel('Serial').fill(serial);
+  await page.getByLabel('Model').fill('Browser-test lever indicator');
+  await page.getByLabel('Resolution (in)').fill('0.0001');
+  await page.getByLabel('Range (in)').fill('0.02');
+  await page.getByLabel('Calibration due').fill(new Date(Date.now() + 100 * 86_400_000).toISOString().slice(0, 10));
+  await page.getByRole('button', { name: 'Add instrument' }).click();
+  await page.waitForURL(/\/instruments\/[0-9a-f-]{36}$/);
+  const id = page.url().split('/instruments/')[1]!;
+  // 1 in = 25.4 mm exactly (NIST): 0.0001 in = 2.54 µm, 0.02 in = 0.508 mm.
+  const { instrument } = (await (await page.request.get(`/api/instruments/${id}`)).json()) as { instrument: { resolutionUm: number; rangeMm: number } };
+  expect(instrument.resolutionUm).toBeCloseTo(2.54, 9);
+  expect(instrument.rangeMm).toBeCloseTo(0.508, 9);
+  // Shown back in inches on the edit form.
+  await expect(page.getByLabel('Resolution (in)')).toHaveValue('0.0001');
+  await expect(page.getByLabel('Range (in)')).toHaveValue('0.02');
+  await admin.context.close();
+});

@@ -56,7 +56,7 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
       <CertificatePanel instrument={instrument} mayUpload={mayWrite} />
       {mayWrite && (
         <>
-          <InstrumentForm key={`${instrument.id}-${instrument.calibrationDue}-${instrument.model}`} instrument={instrument} />
+          <InstrumentForm key={`${instrument.id}-${instrument.calibrationDue}-${instrument.model}`} instrument={instrument} unitSystem={actor.unitSystem} />
           <RetireButton instrumentId={instrument.id} active={instrument.active} />
         </>
       )}

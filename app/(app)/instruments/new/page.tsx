@@ -14,7 +14,7 @@ export default async function NewInstrumentPage() {
         ← All instruments
       </Link>
       {can(actor, 'instrument:write') ? (
-        <InstrumentForm />
+        <InstrumentForm unitSystem={actor.unitSystem} />
       ) : (
         <p role="alert" className="rounded-lg bg-fail/10 p-4 font-semibold text-fail">
           Only an admin adds instruments. Ask your service manager.
