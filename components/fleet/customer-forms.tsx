@@ -2,17 +2,38 @@
 
 import { useMutation } from '@tanstack/react-query';
 import { useRouter } from 'next/navigation';
-import { SchemaForm } from '@/components/ui/schema-form';
+import type { z } from 'zod';
+import { SchemaForm, type SchemaField } from '@/components/ui/schema-form';
 import { contactInput, customerInput, siteInput } from '@/lib/fleet/customers';
+
+/** The fields of each record, shared by its "add" and "edit" forms. */
+const customerFields: SchemaField<z.input<typeof customerInput>>[] = [
+  { name: 'name', label: 'Customer name' },
+  { name: 'notes', label: 'Notes', kind: 'textarea' },
+];
+
+const contactFields: SchemaField<z.input<typeof contactInput>>[] = [
+  { name: 'name', label: 'Name' },
+  { name: 'position', label: 'Position', hint: 'e.g. maintenance lead, lockout authority' },
+  { name: 'email', label: 'E-mail', kind: 'email' },
+  { name: 'phone', label: 'Phone' },
+  { name: 'receivesReports', label: 'Receives the service reports', kind: 'checkbox' },
+];
+
+/** A site's own fields; its customer is fixed by the page it is added from. */
+const siteOwnInput = siteInput.omit({ customerId: true });
+const siteFields: SchemaField<z.input<typeof siteOwnInput>>[] = [
+  { name: 'name', label: 'Site name' },
+  { name: 'address', label: 'Address' },
+  { name: 'floorNotes', label: 'Floor and foundation', kind: 'textarea', hint: 'Slab thickness, isolation pads, anchoring, grout, known cracks' },
+  { name: 'accessNotes', label: 'Access', kind: 'textarea', hint: 'Gate, escort, lockout authority, shifts' },
+];
 
 export function NewCustomerForm() {
   return (
     <SchemaForm
       schema={customerInput}
-      fields={[
-        { name: 'name', label: 'Customer name' },
-        { name: 'notes', label: 'Notes', kind: 'textarea' },
-      ]}
+      fields={customerFields}
       defaultValues={{ name: '', notes: '' }}
       action={{ url: '/api/customers', method: 'POST' }}
       submitLabel="Add customer"
@@ -25,13 +46,7 @@ export function NewContactForm({ customerId }: { customerId: string }) {
   return (
     <SchemaForm
       schema={contactInput}
-      fields={[
-        { name: 'name', label: 'Name' },
-        { name: 'position', label: 'Position', hint: 'e.g. maintenance lead, lockout authority' },
-        { name: 'email', label: 'E-mail', kind: 'email' },
-        { name: 'phone', label: 'Phone' },
-        { name: 'receivesReports', label: 'Receives the service reports', kind: 'checkbox' },
-      ]}
+      fields={contactFields}
       defaultValues={{ name: '', position: '', email: '', phone: '', receivesReports: false }}
       action={{ url: `/api/customers/${customerId}/contacts`, method: 'POST' }}
       submitLabel="Add contact"
@@ -44,12 +59,7 @@ export function NewSiteForm({ customerId }: { customerId: string }) {
   return (
     <SchemaForm
       schema={siteInput}
-      fields={[
-        { name: 'name', label: 'Site name' },
-        { name: 'address', label: 'Address' },
-        { name: 'floorNotes', label: 'Floor and foundation', kind: 'textarea', hint: 'Slab thickness, isolation pads, anchoring, grout, known cracks' },
-        { name: 'accessNotes', label: 'Access', kind: 'textarea', hint: 'Gate, escort, lockout authority, shifts' },
-      ]}
+      fields={siteFields}
       defaultValues={{ customerId, name: '', address: '', floorNotes: '', accessNotes: '' }}
       action={{ url: '/api/sites', method: 'POST' }}
       submitLabel="Add site"
@@ -62,10 +72,7 @@ export function EditCustomerForm({ customer }: { customer: { id: string; name: s
   return (
     <SchemaForm
       schema={customerInput}
-      fields={[
-        { name: 'name', label: 'Customer name' },
-        { name: 'notes', label: 'Notes', kind: 'textarea' },
-      ]}
+      fields={customerFields}
       defaultValues={{ name: customer.name, notes: customer.notes }}
       action={{ url: `/api/customers/${customer.id}`, method: 'PATCH' }}
       submitLabel="Save customer"
@@ -73,18 +80,11 @@ export function EditCustomerForm({ customer }: { customer: { id: string; name: s
   );
 }
 
-const siteFields = siteInput.omit({ customerId: true });
-
 export function EditSiteForm({ site }: { site: { id: string; name: string; address: string; floorNotes: string; accessNotes: string } }) {
   return (
     <SchemaForm
-      schema={siteFields}
-      fields={[
-        { name: 'name', label: 'Site name' },
-        { name: 'address', label: 'Address' },
-        { name: 'floorNotes', label: 'Floor and foundation', kind: 'textarea' },
-        { name: 'accessNotes', label: 'Access', kind: 'textarea' },
-      ]}
+      schema={siteOwnInput}
+      fields={siteFields}
       defaultValues={{ name: site.name, address: site.address, floorNotes: site.floorNotes, accessNotes: site.accessNotes }}
       action={{ url: `/api/sites/${site.id}`, method: 'PATCH' }}
       submitLabel="Save site"
@@ -95,22 +95,17 @@ export function EditSiteForm({ site }: { site: { id: string; name: string; addre
 export function EditContactForm({ contact }: { contact: { id: string; name: string; position: string; email: string; phone: string; receivesReports: boolean } }) {
   const router = useRouter();
   const remove = useMutation({
-    mutationFn: () => fetch(`/api/contacts/${contact.id}`, { method: 'DELETE' }).then((r) => {
-      if (!r.ok) throw new Error(`Could not remove (${r.status})`);
-    }),
+    mutationFn: () =>
+      fetch(`/api/contacts/${contact.id}`, { method: 'DELETE' }).then((r) => {
+        if (!r.ok) throw new Error(`Could not remove (${r.status})`);
+      }),
     onSuccess: () => router.refresh(),
   });
   return (
     <div className="grid gap-3">
       <SchemaForm
         schema={contactInput}
-        fields={[
-          { name: 'name', label: 'Name' },
-          { name: 'position', label: 'Position' },
-          { name: 'email', label: 'E-mail', kind: 'email' },
-          { name: 'phone', label: 'Phone' },
-          { name: 'receivesReports', label: 'Receives the service reports', kind: 'checkbox' },
-        ]}
+        fields={contactFields}
         defaultValues={{ name: contact.name, position: contact.position, email: contact.email, phone: contact.phone, receivesReports: contact.receivesReports }}
         action={{ url: `/api/contacts/${contact.id}`, method: 'PATCH' }}
         submitLabel="Save contact"
