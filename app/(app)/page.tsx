@@ -6,7 +6,7 @@ import { requirePageActor } from '@/lib/auth/session';
 import { MachinePicker } from '@/components/session/machine-picker';
 import { DueSummary } from '@/components/due/due-summary';
 import { countDueByStatus, getReminderDaysBefore } from '@/db/queries/due';
-import { todayUtc } from '@/lib/fleet/due';
+import { todayUtc } from '@/lib/dates';
 
 export const dynamic = 'force-dynamic';
 

@@ -4,7 +4,7 @@ import type { Db } from '../client';
 import { customers, instruments, machines, sites, users, visitInstruments, visits, type Role } from '../schema';
 import { AppError } from '@/lib/errors';
 import { likePattern, type ListQuery, type Page } from '@/lib/list-query';
-import { addDays } from '@/lib/fleet/due';
+import { addDays } from '@/lib/dates';
 import { assertVisitTransition, type VisitRow, type VisitSort, type VisitState } from '@/lib/fleet/visits';
 
 type Org = { organisationId: string };

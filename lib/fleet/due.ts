@@ -21,7 +21,6 @@ export type DueRow = {
   nextVisitAt: string | null;
 };
 
-export { addDays, addMonths, daysInMonth, isLeapYear, todayUtc } from '@/lib/dates';
 import { addDays, addMonths, parseDate } from '@/lib/dates';
 
 /** The next check's date: `months` after the last leveling on `lastOn`. */

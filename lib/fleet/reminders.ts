@@ -2,7 +2,7 @@ import type { Db } from '@/db/client';
 import { claimDueReminders, releaseDueReminder, type DueReminder } from '@/db/queries/due';
 import { claimVisitReminders, getVisit, listAdminEmails, releaseVisitReminder } from '@/db/queries/visits';
 import { sendMail } from '@/lib/mail';
-import { todayUtc } from './due';
+import { todayUtc } from '@/lib/dates';
 import { visitNotice } from './visits';
 
 /** Visits starting within this window get their reminder. */

@@ -1,7 +1,8 @@
 import { sql } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { levelingSessions, machines, sites } from '@/db/schema';
-import { addDays, addMonths, dueStatus, nextDueOn, todayUtc } from '@/lib/fleet/due';
+import { dueStatus, nextDueOn } from '@/lib/fleet/due';
+import { addDays, addMonths, todayUtc } from '@/lib/dates';
 import { MONTH_CASES } from '../unit/fleet/due-cases';
 import { makeOrganisation, testDb, type OrgFixture } from './helpers/fixtures';
 import { api, signInOverHttp } from './helpers/http';

@@ -3,7 +3,8 @@ import path from 'node:path';
 import { eq, inArray, sql } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { dueReminders, machines, sites, visits } from '@/db/schema';
-import { addDays, addMonths, nextDueOn, todayUtc } from '@/lib/fleet/due';
+import { nextDueOn } from '@/lib/fleet/due';
+import { addDays, addMonths, todayUtc } from '@/lib/dates';
 import { makeOrganisation, testDb, type OrgFixture } from './helpers/fixtures';
 import { api, signInOverHttp } from './helpers/http';
 

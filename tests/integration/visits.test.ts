@@ -4,7 +4,7 @@ import { randomUUID } from 'node:crypto';
 import { and, count, eq } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { instruments, visitInstruments, visits } from '@/db/schema';
-import { addDays, todayUtc } from '@/lib/fleet/due';
+import { addDays, todayUtc } from '@/lib/dates';
 import { makeOrganisation, testDb, type OrgFixture } from './helpers/fixtures';
 import { api, signInOverHttp } from './helpers/http';
 

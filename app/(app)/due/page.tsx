@@ -5,7 +5,7 @@ import { DueSummary } from '@/components/due/due-summary';
 import { DueTable } from '@/components/due/due-table';
 import { can } from '@/lib/auth/policy';
 import { requirePageActor } from '@/lib/auth/session';
-import { todayUtc } from '@/lib/fleet/due';
+import { todayUtc } from '@/lib/dates';
 
 export const metadata: Metadata = { title: 'Due list' };
 export const dynamic = 'force-dynamic';

@@ -3,7 +3,7 @@ import { db } from '@/db/client';
 import { getReminderDaysBefore, listDueMachines } from '@/db/queries/due';
 import { assertCan } from '@/lib/auth/policy';
 import { requireActor } from '@/lib/auth/session';
-import { todayUtc } from '@/lib/fleet/due';
+import { todayUtc } from '@/lib/dates';
 import { parseWith, route } from '@/lib/http';
 import { searchParamsOf } from '@/lib/list-query';
 import { dueListQuery } from './schema';

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { MONTH_CASES } from './due-cases';
-import { addDays, addMonths, daysInMonth, dueStatus, isLeapYear, lastLeveledOn, nextDueOn, todayUtc } from '@/lib/fleet/due';
+import { dueStatus, lastLeveledOn, nextDueOn } from '@/lib/fleet/due';
+import { addDays, addMonths, daysInMonth, isLeapYear, todayUtc } from '@/lib/dates';
 
 // Calendar facts: the proleptic Gregorian calendar as ISO 8601 (clause 3.2.1) uses it — 30 days hath September,
 // April, June and November; February has 28 days, 29 in a leap year; a year divisible by 4 is a leap year except
