@@ -25,6 +25,8 @@ export const screwKindEnum = pgEnum('screw_kind', ['corner', 'middle', 'outrigge
 export const instrumentKindEnum = pgEnum('instrument_kind', ['level', 'indicator']);
 export const visitStateEnum = pgEnum('visit_state', ['scheduled', 'in_progress', 'completed', 'cancelled']);
 export const sessionStateEnum = pgEnum('session_state', ['planned', 'live', 'ended', 'in_review', 'approved', 'returned']);
+/** A participant's part in a session: the technician measures and turns screws, experts coach, observers watch. */
+export const sessionPartEnum = pgEnum('session_part', ['technician', 'expert', 'observer']);
 
 export const organisations = pgTable('organisations', {
   id: uuid('id').primaryKey().defaultRandom(),
@@ -176,6 +178,8 @@ export const levelingSessions = pgTable(
     /** Highest seq stored; bumped inside the append transaction (row lock keeps seq gapless). */
     lastSeq: bigint('last_seq', { mode: 'number' }).notNull().default(0),
     lastHash: text('last_hash').notNull().default(''),
+    /** A demo session worked by the virtual technician: the simulator's seed. Null for real sessions. */
+    virtualSeed: integer('virtual_seed'),
     createdAt: timestamptz('created_at').notNull().defaultNow(),
   },
   (t) => [index('leveling_sessions_org_idx').on(t.organisationId), index('leveling_sessions_machine_approved_idx').on(t.machineId, t.approvedAt)],
@@ -307,6 +311,22 @@ export const sessionEvents = pgTable(
 );
 
 /** Needed by @socket.io/postgres-adapter for payloads over 8,000 bytes; it does not create it itself. */
+/** Who takes part in a session besides reading it (reviewers and admins of the organisation read every session). */
+export const sessionParticipants = pgTable(
+  'session_participants',
+  {
+    sessionId: uuid('session_id')
+      .notNull()
+      .references(() => levelingSessions.id),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id),
+    part: sessionPartEnum('part').notNull(),
+    addedAt: timestamptz('added_at').notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.sessionId, t.userId] }), index('session_participants_user_idx').on(t.userId)],
+);
+
 export const socketIoAttachments = pgTable('socket_io_attachments', {
   id: bigint('id', { mode: 'number' }).primaryKey().generatedAlwaysAsIdentity(),
   createdAt: timestamptz('created_at').defaultNow(),
@@ -355,6 +375,7 @@ export type Machine = typeof machines.$inferSelect;
 export type Screw = typeof screws.$inferSelect;
 export type LevelingSession = typeof levelingSessions.$inferSelect;
 export type SessionEventRow = typeof sessionEvents.$inferSelect;
+export type SessionPart = (typeof sessionPartEnum.enumValues)[number];
 export type Role = (typeof roleEnum.enumValues)[number];
 export type Instrument = typeof instruments.$inferSelect;
 export type Visit = typeof visits.$inferSelect;

@@ -4,7 +4,7 @@ import { useState } from 'react';
 import { formatPosition } from '@/lib/display-units';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
 import { LinkBadge } from '@/components/session/link-badge';
-import { useSessionLog } from '@/components/session/use-session-log';
+import { useLiveSession } from '@/components/session/use-live-session';
 import { TiltView } from '@/components/viewer/tilt-view';
 import type { SceneScrew } from '@/components/viewer/canvas/base-scene';
 
@@ -12,9 +12,10 @@ type Props = { sessionId: string; screws: SceneScrew[]; unitSystem: UnitSystem; 
 
 /** The expert's screen: the live tilt view and the readings as they arrive. */
 export function CoachView({ sessionId, screws, unitSystem, machineLabel, technicianName }: Props) {
-  const { state, link } = useSessionLog(sessionId);
+  const { state, link } = useLiveSession(sessionId);
   const [exaggeration, setExaggeration] = useState(2000);
-  const last = state.readings.at(-1);
+  const levels = state.readings.flatMap((r) => (r.kind === 'level' ? [r] : []));
+  const last = levels.at(-1);
   // Readings are taken on the table's centre line, at a station along Y.
   const levelAt = last ? { xMm: 0, yMm: last.positionMm, axis: last.axis } : null;
 
@@ -58,13 +59,13 @@ export function CoachView({ sessionId, screws, unitSystem, machineLabel, technic
         <section aria-labelledby="feed-h" className="rounded-2xl border-2 border-rule bg-card p-3">
           <h2 id="feed-h" className="text-lg font-bold">Readings, live</h2>
           <ol className="mt-2 grid max-h-[50vh] gap-1 overflow-auto" data-testid="reading-feed">
-            {[...state.readings].reverse().map((r) => (
+            {[...levels].reverse().map((r) => (
               <li key={r.seq} className="flex justify-between gap-2 rounded-lg bg-paper px-3 py-2 tabular">
                 <span>#{r.seq} {r.axis.toUpperCase()} @ {formatPosition(r.positionMm, unitSystem)}</span>
                 <span>{r.divisions > 0 ? '+' : ''}{r.divisions} div</span>
               </li>
             ))}
-            {state.readings.length === 0 && <li className="text-ink-soft">Waiting for the technician’s first reading.</li>}
+            {levels.length === 0 && <li className="text-ink-soft">Waiting for the technician’s first reading.</li>}
           </ol>
         </section>
       </aside>

@@ -6,7 +6,7 @@ import { fromZod } from '@/lib/errors';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
 import { levelReadingInput } from '@/lib/session/commands';
 import { LinkBadge } from '@/components/session/link-badge';
-import { useSessionLog } from '@/components/session/use-session-log';
+import { useLiveSession } from '@/components/session/use-live-session';
 import { Button } from '@/components/ui/button';
 import { SafetyNote } from '@/components/ui/safety-note';
 import { VialScale } from './vial-scale';
@@ -16,7 +16,7 @@ type Props = { sessionId: string; travelYMm: number; unitSystem: UnitSystem; mac
 
 /** The technician's screen: enter level readings; each is stored and sent to the coach as it is taken. */
 export function FieldView({ sessionId, travelYMm, unitSystem, machineLabel }: Props) {
-  const { state, link, submitReading } = useSessionLog(sessionId);
+  const { state, link, send: sendCommand } = useLiveSession(sessionId);
   const [axis, setAxis] = useState<Axis>('x');
   const stations = [
     { label: 'Front', mm: -travelYMm / 2 },
@@ -41,16 +41,14 @@ export function FieldView({ sessionId, travelYMm, unitSystem, machineLabel }: Pr
       return;
     }
     setBusy(true);
-    const ack = await submitReading(parsed.data);
+    await sendCommand('reading:submit', { reading: parsed.data });
     setBusy(false);
-    if (ack.ok) {
-      setStatus({ tone: 'ok', text: `Reading stored as #${ack.seq}` });
-      setTyped('');
-      setDivisions(null);
-    } else setStatus({ tone: 'error', text: ack.error.message });
+    setStatus({ tone: 'ok', text: 'Reading queued and sent' });
+    setTyped('');
+    setDivisions(null);
   }
 
-  const recent = state.readings.slice(-8).reverse();
+  const recent = state.readings.flatMap((r) => (r.kind === 'level' ? [r] : [])).slice(-8).reverse();
   const stationName = (mm: number) => stations.find((s) => s.mm === mm)?.label ?? 'Other';
   return (
     <main className="mx-auto grid max-w-3xl gap-5 p-4">

@@ -1,4 +1,4 @@
-import type { Link } from './use-session-log';
+import type { Link } from './use-live-session';
 
 const look: Record<Link, { text: string; cls: string }> = {
   connecting: { text: 'Connecting…', cls: 'bg-rule text-ink' },

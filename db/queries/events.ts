@@ -45,21 +45,50 @@ export type Appended = { event: SessionEvent; duplicate: boolean };
 
 /** The append itself, inside a transaction the caller owns (see `appendEvent`). */
 export async function appendEventInTx(tx: Tx, e: NewEvent): Promise<Appended> {
+  const head = await lockHead(tx, e.sessionId);
+  const existing = await findById(tx, e);
+  if (existing) return existing;
+  return insertEvent(tx, head, e);
+}
+
+/**
+ * Appends an event built from the session as it stands once its row is locked: `build` may read the log and refuse
+ * (throw) or return the event. A resent id answers the stored event before `build` runs, so a resend never fails a
+ * check the first send passed.
+ */
+export async function appendChecked(
+  db: Db,
+  key: { sessionId: string; id: string; type: EventType },
+  build: (tx: Tx) => Promise<NewEvent>,
+): Promise<Appended> {
+  return db.transaction(async (tx) => {
+    const head = await lockHead(tx, key.sessionId);
+    const existing = await findById(tx, key);
+    if (existing) return existing;
+    return insertEvent(tx, head, await build(tx));
+  });
+}
+
+async function lockHead(tx: Tx, sessionId: string) {
   const [head] = await tx
     .select({ lastSeq: levelingSessions.lastSeq, lastHash: levelingSessions.lastHash })
     .from(levelingSessions)
-    .where(eq(levelingSessions.id, e.sessionId))
+    .where(eq(levelingSessions.id, sessionId))
     .for('update');
   if (!head) throw new AppError('not_found:session', 'No such session');
+  return head;
+}
 
+async function findById(tx: Tx, e: { sessionId: string; id: string; type: EventType }): Promise<Appended | null> {
   const [existing] = await tx.select().from(sessionEvents).where(eq(sessionEvents.id, e.id));
-  if (existing) {
-    if (existing.sessionId !== e.sessionId || existing.type !== e.type) {
-      throw new AppError('conflict:event', 'That event id is already used by another event');
-    }
-    return { event: toSessionEvent(existing), duplicate: true };
+  if (!existing) return null;
+  if (existing.sessionId !== e.sessionId || existing.type !== e.type) {
+    throw new AppError('conflict:event', 'That event id is already used by another event');
   }
+  return { event: toSessionEvent(existing), duplicate: true };
+}
 
+async function insertEvent(tx: Tx, head: { lastSeq: number; lastHash: string }, e: NewEvent): Promise<Appended> {
   const seq = head.lastSeq + 1;
   const serverTs = new Date();
   const content = {
@@ -89,11 +118,13 @@ export async function appendEventInTx(tx: Tx, e: NewEvent): Promise<Appended> {
     })
     .returning();
   await tx.update(levelingSessions).set({ lastSeq: seq, lastHash: hash }).where(eq(levelingSessions.id, e.sessionId));
+  head.lastSeq = seq;
+  head.lastHash = hash;
   return { event: toSessionEvent(row!), duplicate: false };
 }
 
 /** A session's events after `afterSeq`, in seq order. */
-export async function listEventsBySession(db: Db, { sessionId, afterSeq = 0, limit = 5000 }: { sessionId: string; afterSeq?: number; limit?: number }) {
+export async function listEventsBySession(db: Db | Tx, { sessionId, afterSeq = 0, limit = 50_000 }: { sessionId: string; afterSeq?: number; limit?: number }) {
   const rows = await db
     .select()
     .from(sessionEvents)

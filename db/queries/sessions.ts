@@ -1,9 +1,11 @@
 import { randomUUID } from 'node:crypto';
-import { and, desc, eq } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray } from 'drizzle-orm';
 import type { Db } from '../client';
-import { customers, levelingSessions, machines, sites, users } from '../schema';
+import { customers, levelingSessions, machines, sessionParticipants, sites, users, visits, type LevelingSession, type Role } from '../schema';
 import { AppError } from '@/lib/errors';
-import { appendEventInTx } from './events';
+import { DEFAULT_TOLERANCES } from '@/lib/leveling/stages';
+import type { SessionScrew } from '@/lib/session/events';
+import { appendEventInTx, type Tx } from './events';
 
 /** A session with what the views draw: its machine and footprint. Null when absent or in another organisation. */
 export async function getSessionForOrganisation(db: Db, { sessionId, organisationId }: { sessionId: string; organisationId: string }) {
@@ -47,39 +49,187 @@ export async function listSessionsByOrganisation(db: Db, { organisationId, limit
     .limit(limit);
 }
 
+/** A session's header and the caller's part in it (null: not a participant). Null when absent or another organisation's. */
+export async function getSessionAccess(db: Db, { sessionId, userId, organisationId }: { sessionId: string; userId: string; organisationId: string }) {
+  const [row] = await db
+    .select({
+      id: levelingSessions.id,
+      technicianId: levelingSessions.technicianId,
+      state: levelingSessions.state,
+      levelDivisionUrad: levelingSessions.levelDivisionUrad,
+      virtualSeed: levelingSessions.virtualSeed,
+      part: sessionParticipants.part,
+    })
+    .from(levelingSessions)
+    .leftJoin(sessionParticipants, and(eq(sessionParticipants.sessionId, levelingSessions.id), eq(sessionParticipants.userId, userId)))
+    .where(and(eq(levelingSessions.id, sessionId), eq(levelingSessions.organisationId, organisationId)));
+  return row ?? null;
+}
+export type SessionAccessRow = NonNullable<Awaited<ReturnType<typeof getSessionAccess>>>;
+
+/** A session's participants with their names, in the order they were added. */
+export async function listParticipants(db: Db, sessionId: string) {
+  return db
+    .select({ userId: users.id, name: users.name, role: users.role, part: sessionParticipants.part, addedAt: sessionParticipants.addedAt })
+    .from(sessionParticipants)
+    .innerJoin(users, eq(users.id, sessionParticipants.userId))
+    .where(eq(sessionParticipants.sessionId, sessionId))
+    .orderBy(asc(sessionParticipants.addedAt));
+}
+
+/** The machine as a session records it at opening: label, travel, tolerances and footprint. */
+async function machineSnapshot(tx: Tx, organisationId: string, machineId: string) {
+  const machine = await tx.query.machines.findFirst({
+    where: and(eq(machines.id, machineId), eq(machines.organisationId, organisationId)),
+    with: { screws: true },
+  });
+  if (!machine) throw new AppError('not_found:machine', 'No such machine', 'machineId');
+  const screws: SessionScrew[] = [...machine.screws]
+    .sort((a, b) => a.label.localeCompare(b.label, 'en', { numeric: true }))
+    .map((sc) => ({
+      id: sc.id,
+      label: sc.label,
+      kind: sc.kind,
+      xMm: sc.xMm,
+      yMm: sc.yMm,
+      liftPerTurnMm: sc.liftPerTurnMm ?? sc.pitchMm,
+      specifiedHeightMm: sc.specHeightMm,
+    }));
+  return {
+    machineLabel: `${machine.model} · ${machine.serial}`,
+    travelMm: machine.travelYMm,
+    tolerances: {
+      levelUrad: DEFAULT_TOLERANCES.levelUrad,
+      twistUrad: machine.twistTolUrad ?? DEFAULT_TOLERANCES.twistUrad,
+      bowUrad: machine.bowTolUrad ?? DEFAULT_TOLERANCES.bowUrad,
+      sweepTirUm: machine.sweepTolUm ?? DEFAULT_TOLERANCES.sweepTirUm,
+    },
+    screws,
+  };
+}
+
+/** Active users of the organisation by id; throws 400 naming the field when one is missing or has the wrong role. */
+async function checkPeople(tx: Tx, organisationId: string, ids: string[], field: string, roles: readonly Role[] | null) {
+  if (ids.length === 0) return [];
+  const found = await tx
+    .select({ id: users.id, name: users.name, role: users.role })
+    .from(users)
+    .where(and(inArray(users.id, ids), eq(users.organisationId, organisationId), eq(users.active, true)));
+  for (const id of ids) {
+    const u = found.find((f) => f.id === id);
+    if (!u) throw new AppError(`bad_request:${field}`, `${field}: no active user ${id} in your organisation`, field);
+    if (roles && !roles.includes(u.role)) throw new AppError(`bad_request:${field}`, `${field}: ${u.name} is a ${u.role}, not an ${roles.join(' or ')}`, field);
+  }
+  return found;
+}
+
 /**
- * Opens a live session for a machine of the caller's organisation and writes its first event
- * (`session:opened`, seq 1) in the same transaction.
+ * Opens a live session for a machine of the caller's organisation: the session row, its participants, and the
+ * first events (`session:opened` with the machine as it is now, then one `participant:added` each) in one transaction.
  */
 export async function openSession(
   db: Db,
-  input: { organisationId: string; machineId: string; technicianId: string; levelDivisionUrad: number },
+  input: {
+    organisationId: string;
+    machineId: string;
+    technician: { id: string; name: string };
+    levelDivisionUrad: number;
+    visitId?: string;
+    experts?: string[];
+    observers?: string[];
+    virtualSeed?: number | null;
+  },
 ) {
   return db.transaction(async (tx) => {
-    const [machine] = await tx
-      .select({ id: machines.id })
-      .from(machines)
-      .where(and(eq(machines.id, input.machineId), eq(machines.organisationId, input.organisationId)));
-    if (!machine) throw new AppError('not_found:machine', 'No such machine');
+    const snapshot = await machineSnapshot(tx, input.organisationId, input.machineId);
+    if (input.visitId) {
+      const [visit] = await tx
+        .select({ id: visits.id, machineId: visits.machineId })
+        .from(visits)
+        .where(and(eq(visits.id, input.visitId), eq(visits.organisationId, input.organisationId)));
+      if (!visit) throw new AppError('not_found:visit', 'No such visit', 'visitId');
+      if (visit.machineId !== input.machineId) throw new AppError('bad_request:visitId', 'visitId: the visit is for another machine', 'visitId');
+    }
+    const experts = await checkPeople(tx, input.organisationId, [...new Set(input.experts ?? [])], 'experts', ['expert']);
+    const observers = await checkPeople(
+      tx,
+      input.organisationId,
+      [...new Set(input.observers ?? [])].filter((id) => id !== input.technician.id && !experts.some((e) => e.id === id)),
+      'observers',
+      null,
+    );
     const [session] = await tx
       .insert(levelingSessions)
       .values({
         organisationId: input.organisationId,
         machineId: input.machineId,
-        technicianId: input.technicianId,
+        technicianId: input.technician.id,
+        visitId: input.visitId ?? null,
         levelDivisionUrad: input.levelDivisionUrad,
+        virtualSeed: input.virtualSeed ?? null,
         state: 'live',
       })
       .returning();
-    const { event } = await appendEventInTx(tx, {
-      sessionId: session!.id,
+    const sessionId = session!.id;
+    const people = [
+      { id: input.technician.id, name: input.technician.name, part: 'technician' as const },
+      ...experts.map((u) => ({ id: u.id, name: u.name, part: 'expert' as const })),
+      ...observers.map((u) => ({ id: u.id, name: u.name, part: 'observer' as const })),
+    ];
+    await tx.insert(sessionParticipants).values(people.map((p) => ({ sessionId, userId: p.id, part: p.part })));
+    const events = [];
+    const opened = await appendEventInTx(tx, {
+      sessionId,
       id: randomUUID(),
       type: 'session:opened',
-      payload: { machineId: input.machineId, levelDivisionUrad: input.levelDivisionUrad },
-      actorId: input.technicianId,
+      payload: { machineId: input.machineId, levelDivisionUrad: input.levelDivisionUrad, virtualSeed: input.virtualSeed ?? null, ...snapshot },
+      actorId: input.technician.id,
       actorRole: 'technician',
     });
-    return { session: { ...session!, lastSeq: event.seq, lastHash: event.hash }, event };
+    events.push(opened.event);
+    for (const p of people) {
+      const added = await appendEventInTx(tx, {
+        sessionId,
+        id: randomUUID(),
+        type: 'participant:added',
+        payload: { userId: p.id, name: p.name, part: p.part },
+        actorId: input.technician.id,
+        actorRole: 'technician',
+      });
+      events.push(added.event);
+    }
+    const last = events.at(-1)!;
+    return { session: { ...session!, lastSeq: last.seq, lastHash: last.hash }, event: opened.event, events };
   });
 }
+
+/** Adds an expert or observer to a session (and the `participant:added` event) in one transaction; 409 if already in. */
+export async function addParticipant(
+  db: Db,
+  input: { organisationId: string; sessionId: string; userId: string; part: 'expert' | 'observer'; actor: { id: string; role: Role } },
+) {
+  return db.transaction(async (tx) => {
+    const [person] = await checkPeople(tx, input.organisationId, [input.userId], 'userId', input.part === 'expert' ? ['expert'] : null);
+    const inserted = await tx
+      .insert(sessionParticipants)
+      .values({ sessionId: input.sessionId, userId: input.userId, part: input.part })
+      .onConflictDoNothing()
+      .returning();
+    if (inserted.length === 0) throw new AppError('conflict:participant', `${person!.name} already takes part in this session`, 'userId');
+    return appendEventInTx(tx, {
+      sessionId: input.sessionId,
+      id: randomUUID(),
+      type: 'participant:added',
+      payload: { userId: person!.id, name: person!.name, part: input.part },
+      actorId: input.actor.id,
+      actorRole: input.actor.role,
+    });
+  });
+}
+
+/** Moves a session to another state (ended, …) in the same transaction as the event that says so. */
+export async function setSessionState(tx: Tx, sessionId: string, state: LevelingSession['state']) {
+  await tx.update(levelingSessions).set({ state }).where(eq(levelingSessions.id, sessionId));
+}
+
 export type SessionWithMachine = NonNullable<Awaited<ReturnType<typeof getSessionForOrganisation>>>;

@@ -15,6 +15,28 @@ export function setBroadcaster(fn: Broadcaster | undefined): void {
 
 export function broadcast(event: SessionEvent): void {
   (globalThis as Holder)[key]?.(event);
+  for (const listener of listeners()) {
+    try {
+      listener(event);
+    } catch {
+      // a listener's failure must not undo a stored event's broadcast
+    }
+  }
+}
+
+/** In-process listeners to every stored event (the virtual technician of demo sessions listens here). */
+const listenersKey = Symbol.for('levelwire.eventListeners');
+type ListenersHolder = { [listenersKey]?: Set<Broadcaster> };
+function listeners(): Set<Broadcaster> {
+  const g = globalThis as ListenersHolder;
+  g[listenersKey] ??= new Set();
+  return g[listenersKey];
+}
+
+/** Calls `fn` after each stored event is broadcast in this process; returns the function that stops it. */
+export function onStoredEvent(fn: Broadcaster): () => void {
+  listeners().add(fn);
+  return () => listeners().delete(fn);
 }
 
 /** Ends every live socket of one user (after a deactivation or a role change); registered by server.ts like the broadcaster. */

@@ -1,9 +1,9 @@
 import { z } from 'zod';
-import { readingSubmit, sessionJoin } from '@/lib/session/commands';
+import { checkMark, moveAnswer, moveSend, notePost, readingSubmit, sessionEnd, sessionJoin, stageEnter } from '@/lib/session/commands';
 import { EVENT_TYPES, type SessionEvent } from '@/lib/session/events';
 
 /** Bumped when a command or event changes shape; clients send it in the handshake. */
-export const PROTOCOL_VERSION = 1;
+export const PROTOCOL_VERSION = 2;
 
 /** The socket.io path Levelwire listens on (kept apart from Next's own paths). */
 export const SOCKET_PATH = '/realtime';
@@ -18,7 +18,19 @@ export const commands = {
   'session:join': sessionJoin,
   'session:leave': z.strictObject({ sessionId: z.uuid() }),
   'reading:submit': readingSubmit,
+  'stage:enter': stageEnter,
+  'check:mark': checkMark,
+  'move:send': moveSend,
+  'move:answer': moveAnswer,
+  'note:post': notePost,
+  'session:end': sessionEnd,
+  /** Round-trip probe for the presence panel: answers at once, stores nothing. */
+  'link:ping': z.strictObject({ sessionId: z.uuid(), rttMs: z.number().finite().min(0).max(60_000).optional() }),
 } as const;
+
+/** Commands that append one event: their acknowledgement carries the event's seq. */
+export const APPENDING_COMMANDS = ['reading:submit', 'stage:enter', 'check:mark', 'move:send', 'move:answer', 'note:post', 'session:end'] as const;
+export type AppendingCommand = (typeof APPENDING_COMMANDS)[number];
 
 export type CommandName = keyof typeof commands;
 
@@ -27,9 +39,21 @@ export type Ack<T> = ({ ok: true } & T) | { ok: false; error: AckError };
 
 /** What each command's successful acknowledgement carries besides `ok: true`. */
 export type CommandResults = {
-  'session:join': { events: SessionEvent[] };
+  'session:join': { events: SessionEvent[]; presence: Presence[] };
   'session:leave': Record<string, never>;
-  'reading:submit': { seq: number; duplicate: boolean };
+  'link:ping': { serverTs: string };
+} & { [N in AppendingCommand]: { seq: number; duplicate: boolean } };
+
+/** Who is connected to a session now: not stored in the log (it changes with every reconnect). */
+export type Presence = {
+  userId: string;
+  name: string;
+  role: string;
+  /** Since when this user has had a socket in the session's room (the earliest of their sockets), ISO time. */
+  since: string;
+  /** Latest round trip a client measured and reported, ms; null before the first probe. */
+  rttMs: number | null;
+  sockets: number;
 };
 
 export type JoinAck = Ack<CommandResults['session:join']>;
@@ -40,8 +64,17 @@ export type ClientToServerEvents = {
 };
 
 /** Every stored event is broadcast under its own type name. */
-export type ServerToClientEvents = { [K in (typeof EVENT_TYPES)[number]]: (event: SessionEvent) => void };
+export type ServerToClientEvents = { [K in (typeof EVENT_TYPES)[number]]: (event: SessionEvent) => void } & {
+  'presence:changed': (update: { sessionId: string; presence: Presence[] }) => void;
+};
 
-export type SocketData = { actor: import('@/lib/auth/actor').Actor; protocol: number };
+export type SocketData = {
+  actor: import('@/lib/auth/actor').Actor;
+  protocol: number;
+  connectedAt: string;
+  rttMs: number | null;
+  /** Sessions this socket has joined (for presence). */
+  sessions: string[];
+};
 
 export { EVENT_TYPES };

@@ -6,10 +6,10 @@ import { actorFromUserId } from '@/lib/auth/actor';
 import { setBroadcaster, setUserSocketEnder } from './bus';
 import { SOCKET_PATH, sessionRoom, userRoom } from './contract';
 import type { IoServer, RealtimeDeps } from './handlers/define';
-import { readingSubmitHandler } from './handlers/reading-submit';
-import { sessionJoinHandler, sessionLeaveHandler } from './handlers/session-join';
+import { sessionCommandHandlers } from './handlers/session-commands';
+import { announcePresence, linkPingHandler, sessionJoinHandler, sessionLeaveHandler } from './handlers/session-join';
 
-const handlers = [sessionJoinHandler, sessionLeaveHandler, readingSubmitHandler];
+const handlers = [sessionJoinHandler, sessionLeaveHandler, linkPingHandler, ...sessionCommandHandlers];
 
 /**
  * Attaches Levelwire's socket.io server to an HTTP server. The handshake must carry a valid next-auth
@@ -27,6 +27,9 @@ export function attachRealtime(httpServer: HttpServer, deps: RealtimeDeps & { se
       if (!actor) return next(new Error('unauthorized: sign in first'));
       socket.data.actor = actor;
       socket.data.protocol = Number(socket.handshake.auth?.protocol ?? 0);
+      socket.data.connectedAt = new Date().toISOString();
+      socket.data.rttMs = null;
+      socket.data.sessions = [];
       next();
     } catch {
       next(new Error('unauthorized: sign in first'));
@@ -36,6 +39,9 @@ export function attachRealtime(httpServer: HttpServer, deps: RealtimeDeps & { se
   io.on('connection', (socket) => {
     void socket.join(userRoom(socket.data.actor.id));
     for (const attach of handlers) attach({ socket, io, deps });
+    socket.on('disconnect', () => {
+      for (const sessionId of socket.data.sessions) void announcePresence(io, sessionId).catch(() => undefined);
+    });
   });
 
   setBroadcaster((event) => io.to(sessionRoom(event.sessionId)).emit(event.type, event));

@@ -1,43 +1,199 @@
-import type { LevelReadingPayload, SessionEvent } from './events';
+import type {
+  MoveSentPayload,
+  Part,
+  PhotoAttachedPayload,
+  ReadingPayload,
+  SessionEvent,
+  SessionScrew,
+  SessionTolerances,
+} from './events';
+import type { SessionStage } from './stages';
 
-export type RecordedReading = LevelReadingPayload & { seq: number; serverTs: string; actorId: string | null };
+export type RecordedReading = ReadingPayload & { stage: SessionStage; seq: number; serverTs: string; actorId: string | null };
 
-/** What a session looks like after its events: the one implementation, used by server, views and tests. */
+export type MoveState = MoveSentPayload & {
+  seq: number;
+  sentAt: string;
+  sentBy: string | null;
+  status: 'pending' | 'done' | 'cannot';
+  answeredSeq: number | null;
+  answeredAt: string | null;
+  /** Done: what was actually turned. */
+  doneTurns: number | null;
+  doneRaiseUm: number | null;
+  reason: string | null;
+};
+
+export type NoteState = { seq: number; at: string; actorId: string | null; actorRole: string; text: string };
+export type PhotoState = PhotoAttachedPayload & { seq: number; at: string };
+export type ParticipantState = { userId: string; name: string; part: Part; seq: number };
+
+/** What a session looks like after its events: the one implementation, used by server, views, replay and tests. */
 export type SessionState = {
   seq: number;
+  machineId: string | null;
+  machineLabel: string | null;
   levelDivisionUrad: number | null;
+  travelMm: number | null;
+  tolerances: SessionTolerances | null;
+  screws: SessionScrew[];
+  virtualSeed: number | null;
+  participants: ParticipantState[];
+  stage: SessionStage;
+  /** Every stage entered, in order, with the seq it was entered at (a stage may be entered again). */
+  stageLog: { stage: SessionStage; seq: number; at: string }[];
   readings: RecordedReading[];
-  /** Latest slope per axis, µrad (positive: rising toward +x / +y); null before the first reading. */
+  /** Checklist items by id: done or not (the last mark wins). */
+  checks: Record<string, boolean>;
+  moves: MoveState[];
+  notes: NoteState[];
+  photos: PhotoState[];
+  ended: { seq: number; at: string; reason: string | null } | null;
+  /** Latest slope per axis, µrad (positive: rising toward +x / +y); null before the first level reading. */
   slopeXUrad: number | null;
   slopeYUrad: number | null;
 };
 
-export const initialState: SessionState = { seq: 0, levelDivisionUrad: null, readings: [], slopeXUrad: null, slopeYUrad: null };
+export const initialState: SessionState = Object.freeze({
+  seq: 0,
+  machineId: null,
+  machineLabel: null,
+  levelDivisionUrad: null,
+  travelMm: null,
+  tolerances: null,
+  screws: [],
+  virtualSeed: null,
+  participants: [],
+  stage: 'prepare',
+  stageLog: [],
+  readings: [],
+  checks: {},
+  moves: [],
+  notes: [],
+  photos: [],
+  ended: null,
+  slopeXUrad: null,
+  slopeYUrad: null,
+}) as SessionState;
+
+/** A copy whose arrays and maps may be changed without touching `s` (events append, so shallow copies suffice). */
+function draftOf(s: SessionState): SessionState {
+  return {
+    ...s,
+    participants: [...s.participants],
+    stageLog: [...s.stageLog],
+    readings: [...s.readings],
+    checks: { ...s.checks },
+    moves: [...s.moves],
+    notes: [...s.notes],
+    photos: [...s.photos],
+  };
+}
+
+/** Applies one event to a draft in place (see draftOf). Events at or below the draft's seq are ignored. */
+function applyInPlace(d: SessionState, e: SessionEvent): void {
+  if (e.seq <= d.seq) return;
+  d.seq = e.seq;
+  switch (e.type) {
+    case 'session:opened': {
+      const p = e.payload as SessionEvent<'session:opened'>['payload'];
+      d.machineId = p.machineId;
+      d.levelDivisionUrad = p.levelDivisionUrad;
+      d.machineLabel = p.machineLabel ?? null;
+      d.travelMm = p.travelMm ?? null;
+      d.tolerances = p.tolerances ?? null;
+      d.screws = p.screws ?? [];
+      d.virtualSeed = p.virtualSeed ?? null;
+      d.stageLog.push({ stage: 'prepare', seq: e.seq, at: e.serverTs });
+      return;
+    }
+    case 'participant:added': {
+      const p = e.payload as SessionEvent<'participant:added'>['payload'];
+      const i = d.participants.findIndex((x) => x.userId === p.userId);
+      const entry = { ...p, seq: e.seq };
+      if (i >= 0) d.participants[i] = entry;
+      else d.participants.push(entry);
+      return;
+    }
+    case 'stage:entered': {
+      const p = e.payload as SessionEvent<'stage:entered'>['payload'];
+      d.stage = p.stage;
+      d.stageLog.push({ stage: p.stage, seq: e.seq, at: e.serverTs });
+      return;
+    }
+    case 'reading:recorded': {
+      const p = e.payload as ReadingPayload;
+      d.readings.push({ ...p, stage: p.stage ?? d.stage, seq: e.seq, serverTs: e.serverTs, actorId: e.actorId });
+      if (p.kind === 'level') {
+        if (p.axis === 'x') d.slopeXUrad = p.slopeUrad;
+        else d.slopeYUrad = p.slopeUrad;
+      }
+      return;
+    }
+    case 'check:marked': {
+      const p = e.payload as SessionEvent<'check:marked'>['payload'];
+      d.checks[p.item] = p.done;
+      return;
+    }
+    case 'move:sent': {
+      const p = e.payload as MoveSentPayload;
+      d.moves.push({
+        ...p,
+        seq: e.seq,
+        sentAt: e.serverTs,
+        sentBy: e.actorId,
+        status: 'pending',
+        answeredSeq: null,
+        answeredAt: null,
+        doneTurns: null,
+        doneRaiseUm: null,
+        reason: null,
+      });
+      return;
+    }
+    case 'move:answered': {
+      const p = e.payload as SessionEvent<'move:answered'>['payload'];
+      const i = d.moves.findIndex((m) => m.moveId === p.moveId);
+      if (i < 0) return;
+      const base = { ...d.moves[i]!, answeredSeq: e.seq, answeredAt: e.serverTs };
+      d.moves[i] =
+        p.outcome === 'done'
+          ? { ...base, status: 'done', doneTurns: p.turns, doneRaiseUm: p.raiseUm }
+          : { ...base, status: 'cannot', reason: p.reason };
+      return;
+    }
+    case 'note:posted': {
+      const p = e.payload as SessionEvent<'note:posted'>['payload'];
+      d.notes.push({ seq: e.seq, at: e.serverTs, actorId: e.actorId, actorRole: e.actorRole, text: p.text });
+      return;
+    }
+    case 'photo:attached': {
+      const p = e.payload as PhotoAttachedPayload;
+      d.photos.push({ ...p, seq: e.seq, at: e.serverTs });
+      return;
+    }
+    case 'session:ended': {
+      const p = e.payload as SessionEvent<'session:ended'>['payload'];
+      d.ended = { seq: e.seq, at: e.serverTs, reason: p.reason ?? null };
+      return;
+    }
+    default:
+      return;
+  }
+}
 
 /** Applies one event; events at or below the state's seq are ignored, so replays are harmless. */
 export function applyEvent(state: SessionState, e: SessionEvent): SessionState {
   if (e.seq <= state.seq) return state;
-  const next = { ...state, seq: e.seq };
-  switch (e.type) {
-    case 'session:opened': {
-      const p = e.payload as SessionEvent<'session:opened'>['payload'];
-      return { ...next, levelDivisionUrad: p.levelDivisionUrad };
-    }
-    case 'reading:recorded': {
-      const p = e.payload as LevelReadingPayload;
-      const reading: RecordedReading = { ...p, seq: e.seq, serverTs: e.serverTs, actorId: e.actorId };
-      return {
-        ...next,
-        readings: [...state.readings, reading],
-        slopeXUrad: p.axis === 'x' ? p.slopeUrad : state.slopeXUrad,
-        slopeYUrad: p.axis === 'y' ? p.slopeUrad : state.slopeYUrad,
-      };
-    }
-    default:
-      return next;
-  }
+  const d = draftOf(state);
+  applyInPlace(d, e);
+  return d;
 }
 
+/** Folds events in seq order onto `from` (copied once, so the cost is linear in the number of events). */
 export function foldEvents(events: readonly SessionEvent[], from: SessionState = initialState): SessionState {
-  return events.reduce(applyEvent, from);
+  if (!events.some((e) => e.seq > from.seq)) return from;
+  const d = draftOf(from);
+  for (const e of events) applyInPlace(d, e);
+  return d;
 }

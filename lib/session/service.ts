@@ -1,45 +1,200 @@
 import type { Db } from '@/db/client';
-import { appendEvent } from '@/db/queries/events';
-import { getSessionForOrganisation, getSessionHeader } from '@/db/queries/sessions';
+import { appendChecked, listEventsBySession, type NewEvent, type Tx } from '@/db/queries/events';
+import { getSessionAccess, getSessionForOrganisation, setSessionState, type SessionAccessRow } from '@/db/queries/sessions';
 import type { Actor } from '@/lib/auth/actor';
 import { assertCan } from '@/lib/auth/policy';
 import { AppError } from '@/lib/errors';
-import { readingToSlopeUrad } from '@/lib/leveling/level';
+import { readingToSlopeUrad, reversalCheck } from '@/lib/leveling/level';
 import { broadcast } from '@/lib/realtime/bus';
-import type { ReadingSubmit } from './commands';
-import type { SessionEvent } from './events';
+import type { CheckMark, MoveAnswer, MoveSend, NotePost, ReadingSubmit, SessionEnd, StageEnter } from './commands';
+import { moveOfTurns, stageChecklist } from './derive';
+import type { Part, ReadingPayload, SessionEvent } from './events';
+import { foldEvents, type SessionState } from './fold';
 
-/** The session if the actor may see it; 404 when it is absent or another organisation's. */
-export async function loadSessionFor(db: Db, actor: Actor, sessionId: string) {
+/** What the caller is in a session: a participant's part, or a reader (reviewers and admins read every session). */
+export type Standing = Part | 'reader';
+
+/** Which standing may send each command. Observers send notes only; readers send nothing. */
+export const COMMAND_PARTS = {
+  'reading:submit': ['technician'],
+  'check:mark': ['technician'],
+  'stage:enter': ['technician'],
+  'photo:attach': ['technician'],
+  'move:send': ['expert'],
+  'move:answer': ['technician'],
+  'note:post': ['technician', 'expert', 'observer'],
+  'session:end': ['technician', 'expert'],
+} as const satisfies Record<string, readonly Standing[]>;
+export type SessionCommand = keyof typeof COMMAND_PARTS;
+
+const doing: Record<SessionCommand, string> = {
+  'reading:submit': 'records readings',
+  'check:mark': 'marks the checklist',
+  'stage:enter': 'moves between stages',
+  'photo:attach': 'attaches photos',
+  'move:send': 'sends moves',
+  'move:answer': 'answers moves',
+  'note:post': 'posts notes',
+  'session:end': 'ends the session',
+};
+
+export type SessionAccess = { session: SessionAccessRow; standing: Standing };
+
+/** The caller's standing in a session: 404 when it is absent or another organisation's, 403 when they take no part. */
+export async function accessSession(db: Db, actor: Actor, sessionId: string): Promise<SessionAccess> {
   assertCan(actor, 'session:view');
+  const session = await getSessionAccess(db, { sessionId, userId: actor.id, organisationId: actor.organisationId });
+  if (!session) throw new AppError('not_found:session', 'No such session');
+  const standing: Standing | null = session.part ?? (actor.role === 'reviewer' || actor.role === 'admin' ? 'reader' : null);
+  if (!standing) throw new AppError('forbidden:session', 'You do not take part in this session; ask its technician to add you');
+  return { session, standing };
+}
+
+/** The session with its machine, if the actor may see it (see accessSession). */
+export async function loadSessionFor(db: Db, actor: Actor, sessionId: string) {
+  const access = await accessSession(db, actor, sessionId);
   const session = await getSessionForOrganisation(db, { sessionId, organisationId: actor.organisationId });
   if (!session) throw new AppError('not_found:session', 'No such session');
-  return session;
+  return { ...session, standing: access.standing };
+}
+
+/** Checks the caller may send `command` now: the right part, and the session live. */
+export async function accessForCommand(db: Db, actor: Actor, sessionId: string, command: SessionCommand): Promise<SessionAccess> {
+  const access = await accessSession(db, actor, sessionId);
+  if (!(COMMAND_PARTS[command] as readonly Standing[]).includes(access.standing)) {
+    const who = COMMAND_PARTS[command].join(' or ');
+    throw new AppError(`forbidden:${command.split(':')[0]}`, `Only the session’s ${who} ${doing[command]}; you are ${access.standing === 'reader' ? 'reading it' : `its ${access.standing}`}`);
+  }
+  if (access.session.state !== 'live') throw new AppError('conflict:session', `The session is ${access.session.state.replace('_', ' ')}, not live`);
+  return access;
+}
+
+/** The session as it stands, folded from its log (inside the append transaction, under the session's row lock). */
+async function stateOf(tx: Tx, sessionId: string): Promise<SessionState> {
+  return foldEvents(await listEventsBySession(tx, { sessionId }));
+}
+
+function screwOf(state: SessionState, screwId: string, field = 'screwId') {
+  const screw = state.screws.find((s) => s.id === screwId);
+  if (!screw) throw new AppError(`bad_request:${field}`, `${field}: not a screw of this machine`, field);
+  return screw;
+}
+
+type Done = { event: SessionEvent; duplicate: boolean };
+
+function base(actor: Actor, cmd: { id: string; sessionId: string; clientTs?: string | undefined }) {
+  return { sessionId: cmd.sessionId, id: cmd.id, actorId: actor.id, actorRole: actor.role, clientTs: cmd.clientTs ?? null };
+}
+
+async function commit(db: Db, key: { sessionId: string; id: string; type: NewEvent['type'] }, build: (tx: Tx) => Promise<NewEvent>): Promise<Done> {
+  const result = await appendChecked(db, key, build);
+  if (!result.duplicate) broadcast(result.event);
+  return result;
 }
 
 /**
- * Records a level reading: checks the actor and the session, converts divisions to slope with the
- * session's level, appends the event, then broadcasts it (after the commit). Idempotent by command id.
+ * Records a reading: checks the caller and the session, converts it (divisions to slope with the session's level,
+ * a reversal to slope and zero error), appends it, then broadcasts it after the commit. Idempotent by command id.
  */
-export async function recordReading(db: Db, actor: Actor, cmd: ReadingSubmit): Promise<{ event: SessionEvent; duplicate: boolean }> {
-  assertCan(actor, 'session:view');
-  const session = await getSessionHeader(db, { sessionId: cmd.sessionId, organisationId: actor.organisationId });
-  if (!session) throw new AppError('not_found:session', 'No such session');
-  assertCan(actor, 'reading:submit');
-  if (session.technicianId !== actor.id) {
-    throw new AppError('forbidden:reading', 'Only the session’s technician records readings');
-  }
-  if (session.state !== 'live') throw new AppError('conflict:session', `The session is ${session.state}, not live`);
-  const { reading } = cmd;
-  const result = await appendEvent(db, {
-    sessionId: session.id,
-    id: cmd.id,
-    type: 'reading:recorded',
-    payload: { ...reading, slopeUrad: readingToSlopeUrad(reading.divisions, session.levelDivisionUrad) },
-    actorId: actor.id,
-    actorRole: actor.role,
-    clientTs: cmd.clientTs ?? null,
+export async function recordReading(db: Db, actor: Actor, cmd: ReadingSubmit): Promise<Done> {
+  const { session } = await accessForCommand(db, actor, cmd.sessionId, 'reading:submit');
+  const r = cmd.reading;
+  return commit(db, { sessionId: cmd.sessionId, id: cmd.id, type: 'reading:recorded' }, async (tx) => {
+    let payload: ReadingPayload;
+    switch (r.kind) {
+      case 'level':
+        payload = { ...r, slopeUrad: readingToSlopeUrad(r.divisions, session.levelDivisionUrad) };
+        break;
+      case 'reversal': {
+        const check = reversalCheck(r.firstDiv, r.secondDiv);
+        payload = { ...r, ...check };
+        break;
+      }
+      case 'height':
+        screwOf(await stateOf(tx, cmd.sessionId), r.screwId, 'reading.screwId');
+        payload = r;
+        break;
+      case 'sweep':
+        payload = r;
+        break;
+    }
+    return { ...base(actor, cmd), type: 'reading:recorded', payload };
   });
-  if (!result.duplicate) broadcast(result.event);
-  return result;
+}
+
+export async function enterStage(db: Db, actor: Actor, cmd: StageEnter): Promise<Done> {
+  await accessForCommand(db, actor, cmd.sessionId, 'stage:enter');
+  return commit(db, { sessionId: cmd.sessionId, id: cmd.id, type: 'stage:entered' }, async () => ({
+    ...base(actor, cmd),
+    type: 'stage:entered',
+    payload: { stage: cmd.stage },
+  }));
+}
+
+export async function markCheck(db: Db, actor: Actor, cmd: CheckMark): Promise<Done> {
+  await accessForCommand(db, actor, cmd.sessionId, 'check:mark');
+  return commit(db, { sessionId: cmd.sessionId, id: cmd.id, type: 'check:marked' }, async (tx) => {
+    const state = await stateOf(tx, cmd.sessionId);
+    if (!stageChecklist(cmd.stage, state.screws).some((c) => c.id === cmd.item)) {
+      throw new AppError('bad_request:item', `item: "${cmd.item}" is not on the ${cmd.stage} checklist`, 'item');
+    }
+    return { ...base(actor, cmd), type: 'check:marked', payload: { stage: cmd.stage, item: cmd.item, done: cmd.done } };
+  });
+}
+
+/** A move from the coach: one screw by turns of the wrench; stored with its height in µm and degrees of swing. */
+export async function sendMove(db: Db, actor: Actor, cmd: MoveSend): Promise<Done> {
+  await accessForCommand(db, actor, cmd.sessionId, 'move:send');
+  return commit(db, { sessionId: cmd.sessionId, id: cmd.id, type: 'move:sent' }, async (tx) => {
+    const state = await stateOf(tx, cmd.sessionId);
+    const move = moveOfTurns(screwOf(state, cmd.screwId), cmd.turns);
+    return {
+      ...base(actor, cmd),
+      type: 'move:sent',
+      payload: {
+        moveId: cmd.id,
+        screwId: cmd.screwId,
+        stage: cmd.stage,
+        raiseUm: move.raiseUm,
+        turns: move.turns,
+        degrees: move.degrees,
+        recommended: cmd.recommended,
+        ...(cmd.note ? { note: cmd.note } : {}),
+      },
+    };
+  });
+}
+
+/** The technician's answer to a move: done (with what was actually turned) or cannot (with a reason). */
+export async function answerMove(db: Db, actor: Actor, cmd: MoveAnswer): Promise<Done> {
+  await accessForCommand(db, actor, cmd.sessionId, 'move:answer');
+  return commit(db, { sessionId: cmd.sessionId, id: cmd.id, type: 'move:answered' }, async (tx) => {
+    const state = await stateOf(tx, cmd.sessionId);
+    const move = state.moves.find((m) => m.moveId === cmd.moveId);
+    if (!move) throw new AppError('bad_request:moveId', 'moveId: no such move in this session', 'moveId');
+    if (move.status !== 'pending') throw new AppError('conflict:move', `That move was already answered (${move.status === 'done' ? 'done' : 'cannot'})`, 'moveId');
+    const payload =
+      cmd.outcome === 'done'
+        ? { moveId: cmd.moveId, outcome: 'done' as const, turns: cmd.turns, raiseUm: moveOfTurns(screwOf(state, move.screwId), cmd.turns).raiseUm }
+        : { moveId: cmd.moveId, outcome: 'cannot' as const, reason: cmd.reason };
+    return { ...base(actor, cmd), type: 'move:answered', payload };
+  });
+}
+
+export async function postNote(db: Db, actor: Actor, cmd: NotePost): Promise<Done> {
+  await accessForCommand(db, actor, cmd.sessionId, 'note:post');
+  return commit(db, { sessionId: cmd.sessionId, id: cmd.id, type: 'note:posted' }, async () => ({
+    ...base(actor, cmd),
+    type: 'note:posted',
+    payload: { text: cmd.text },
+  }));
+}
+
+/** Ends a live session: the state moves to ended in the same transaction as the event. */
+export async function endSession(db: Db, actor: Actor, cmd: SessionEnd): Promise<Done> {
+  await accessForCommand(db, actor, cmd.sessionId, 'session:end');
+  return commit(db, { sessionId: cmd.sessionId, id: cmd.id, type: 'session:ended' }, async (tx) => {
+    await setSessionState(tx, cmd.sessionId, 'ended');
+    return { ...base(actor, cmd), type: 'session:ended', payload: cmd.reason ? { reason: cmd.reason } : {} };
+  });
 }

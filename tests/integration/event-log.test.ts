@@ -13,7 +13,7 @@ beforeAll(async () => {
 });
 
 async function newSession() {
-  const { session } = await openSession(db, { organisationId: org.organisationId, machineId: org.machineId, technicianId: org.users.technician.id, levelDivisionUrad: 20 });
+  const { session } = await openSession(db, { organisationId: org.organisationId, machineId: org.machineId, technician: org.users.technician, levelDivisionUrad: 20 });
   return session.id;
 }
 

@@ -15,7 +15,7 @@ beforeAll(async () => {
   org = await makeOrganisation(db, 'Realtime');
   other = await makeOrganisation(db, 'Outsider');
   rt = await bootRealtime(db);
-  const { session } = await openSession(db, { organisationId: org.organisationId, machineId: org.machineId, technicianId: org.users.technician.id, levelDivisionUrad: 20 });
+  const { session } = await openSession(db, { organisationId: org.organisationId, machineId: org.machineId, technician: org.users.technician, levelDivisionUrad: 20 });
   sessionId = session.id;
 });
 afterAll(() => rt.close());

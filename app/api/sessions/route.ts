@@ -18,7 +18,7 @@ export const POST = route('session', async (req) => {
   const actor = await requireActor();
   const input = parseWith(openSessionInput, await jsonBody(req, 'session'), 'session');
   assertCan(actor, 'session:open');
-  const { session, event } = await openSession(db(), { ...input, organisationId: actor.organisationId, technicianId: actor.id });
-  broadcast(event);
+  const { session, events } = await openSession(db(), { ...input, organisationId: actor.organisationId, technician: { id: actor.id, name: actor.name } });
+  events.forEach(broadcast);
   return NextResponse.json({ session: { id: session.id, state: session.state } }, { status: 201 });
 });

@@ -1,17 +1,55 @@
 import { listEventsBySession } from '@/db/queries/events';
-import { loadSessionFor } from '@/lib/session/service';
-import { sessionRoom } from '../contract';
-import { defineHandler } from './define';
+import { accessSession } from '@/lib/session/service';
+import { sessionRoom, type Presence } from '../contract';
+import { defineHandler, type IoServer } from './define';
 
-/** Joins a session's room (own organisation only) and returns the events after `afterSeq` to catch up. */
-export const sessionJoinHandler = defineHandler('session:join', async ({ socket, deps }, { sessionId, afterSeq }) => {
-  await loadSessionFor(deps.db, socket.data.actor, sessionId);
+/** Who is connected to a session's room now, one entry per user (across processes with the adapter). */
+export async function presenceOf(io: IoServer, sessionId: string): Promise<Presence[]> {
+  const sockets = await io.in(sessionRoom(sessionId)).fetchSockets();
+  const byUser = new Map<string, Presence>();
+  for (const s of sockets) {
+    const { actor, connectedAt, rttMs } = s.data;
+    if (!actor) continue;
+    const seen = byUser.get(actor.id);
+    if (!seen) byUser.set(actor.id, { userId: actor.id, name: actor.name, role: actor.role, since: connectedAt, rttMs, sockets: 1 });
+    else {
+      seen.sockets += 1;
+      if (connectedAt < seen.since) seen.since = connectedAt;
+      if (rttMs !== null && (seen.rttMs === null || rttMs < seen.rttMs)) seen.rttMs = rttMs;
+    }
+  }
+  return [...byUser.values()].sort((a, b) => a.since.localeCompare(b.since));
+}
+
+/** Tells a session's room who is connected now. */
+export async function announcePresence(io: IoServer, sessionId: string): Promise<void> {
+  const presence = await presenceOf(io, sessionId);
+  io.to(sessionRoom(sessionId)).emit('presence:changed', { sessionId, presence });
+}
+
+/** Joins a session's room (participants and readers of the organisation) and returns the events after `afterSeq`. */
+export const sessionJoinHandler = defineHandler('session:join', async ({ socket, io, deps }, { sessionId, afterSeq }) => {
+  await accessSession(deps.db, socket.data.actor, sessionId);
   await socket.join(sessionRoom(sessionId));
+  if (!socket.data.sessions.includes(sessionId)) socket.data.sessions.push(sessionId);
   const events = await listEventsBySession(deps.db, { sessionId, afterSeq });
-  return { events };
+  void announcePresence(io, sessionId);
+  return { events, presence: await presenceOf(io, sessionId) };
 });
 
-export const sessionLeaveHandler = defineHandler('session:leave', async ({ socket }, { sessionId }) => {
+export const sessionLeaveHandler = defineHandler('session:leave', async ({ socket, io }, { sessionId }) => {
   await socket.leave(sessionRoom(sessionId));
+  socket.data.sessions = socket.data.sessions.filter((s) => s !== sessionId);
+  void announcePresence(io, sessionId);
   return {} as Record<string, never>;
+});
+
+/** A client's round-trip probe: answered at once; the round trip it measured last time is kept for presence. */
+export const linkPingHandler = defineHandler('link:ping', async ({ socket, io }, { sessionId, rttMs }) => {
+  if (rttMs !== undefined && socket.data.sessions.includes(sessionId)) {
+    const changed = socket.data.rttMs === null || Math.abs(socket.data.rttMs - rttMs) > 20;
+    socket.data.rttMs = rttMs;
+    if (changed) void announcePresence(io, sessionId);
+  }
+  return { serverTs: new Date().toISOString() };
 });

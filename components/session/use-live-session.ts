@@ -1,0 +1,189 @@
+'use client';
+
+import { useQuery, useQueryClient } from '@tanstack/react-query';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import { io, type Socket } from 'socket.io-client';
+import {
+  EVENT_TYPES,
+  PROTOCOL_VERSION,
+  SOCKET_PATH,
+  type Ack,
+  type AckError,
+  type AppendingCommand,
+  type ClientToServerEvents,
+  type Presence,
+  type ServerToClientEvents,
+} from '@/lib/realtime/contract';
+import type { SessionEvent } from '@/lib/session/events';
+import { foldEvents } from '@/lib/session/fold';
+import { firstGap, mergeEvents } from '@/lib/session/merge';
+import { apiFetch } from './api';
+import { cacheLog, cachedLog, countAttempt, dequeue, enqueue, queued, type QueuedCommand } from './outbox';
+
+type LevelwireSocket = Socket<ServerToClientEvents, ClientToServerEvents>;
+export type Link = 'connecting' | 'live' | 'offline';
+
+/** A command the server refused (it stays out of the log); shown to the person who sent it. */
+export type Rejected = { id: string; name: AppendingCommand; error: AckError; at: number };
+
+const ACK_TIMEOUT_MS = 8_000;
+const PING_EVERY_MS = 5_000;
+
+/** Queue order: strictly increasing within this page, and after any earlier page's (wall clock). */
+let lastQueuedAt = 0;
+function nextQueuedAt(): number {
+  lastQueuedAt = Math.max(Date.now(), lastQueuedAt + 1);
+  return lastQueuedAt;
+}
+
+/** Payload of an appending command without the fields every command carries (the hook adds them). */
+type CommandBody = Record<string, unknown>;
+
+/**
+ * A live session for a view: the log (loaded through the events route, kept current by the socket, cached in
+ * IndexedDB for a reload without a network), its fold, presence, and `send`, which writes each command to an
+ * IndexedDB outbox first and sends the outbox in order whenever the socket is connected. A command leaves the
+ * outbox only when the server acknowledges it (stored, or a duplicate of one stored) or refuses it (shown in
+ * `rejected`). Ids are made here, so a resend after a lost acknowledgement stores nothing twice.
+ */
+export function useLiveSession(sessionId: string) {
+  const queryClient = useQueryClient();
+  const key = useMemo(() => ['session', sessionId, 'events'] as const, [sessionId]);
+  const { data: events = [], error } = useQuery({
+    queryKey: key,
+    queryFn: async () => {
+      try {
+        return (await apiFetch<{ events: SessionEvent[] }>(`/api/sessions/${sessionId}/events?after=0`)).events;
+      } catch (e) {
+        const cached = await cachedLog(sessionId).catch(() => null);
+        if (cached && (e instanceof TypeError || !navigator.onLine)) return cached;
+        throw e;
+      }
+    },
+    staleTime: Infinity,
+    retry: (count, e) => count < 2 && e instanceof TypeError,
+  });
+  const [link, setLink] = useState<Link>('connecting');
+  const [presence, setPresence] = useState<Presence[]>([]);
+  const [outbox, setOutbox] = useState<QueuedCommand[]>([]);
+  const [rejected, setRejected] = useState<Rejected[]>([]);
+  const [rttMs, setRttMs] = useState<number | null>(null);
+  /** Seqs in the order this view first applied them: the browser tests check it runs 1, 2, 3, … with no repeat. */
+  const seenRef = useRef<number[]>([]);
+  const socketRef = useRef<LevelwireSocket | null>(null);
+  const flushing = useRef(false);
+
+  const refreshOutbox = useCallback(async () => setOutbox(await queued(sessionId)), [sessionId]);
+
+  const flush = useCallback(async () => {
+    const socket = socketRef.current;
+    if (flushing.current || !socket?.connected) return;
+    flushing.current = true;
+    try {
+      for (const cmd of await queued(sessionId)) {
+        if (!socket.connected) break;
+        let ack: Ack<{ seq: number; duplicate: boolean }>;
+        try {
+          await countAttempt(cmd);
+          ack = (await socket.timeout(ACK_TIMEOUT_MS).emitWithAck(cmd.name, cmd.payload as never)) as Ack<{ seq: number; duplicate: boolean }>;
+        } catch {
+          break; // no answer: keep it (and everything after it, in order) for the next connection
+        }
+        if (!ack.ok) {
+          const refused: Rejected = { id: cmd.id, name: cmd.name, error: ack.error, at: Date.now() };
+          setRejected((r) => [...r.slice(-9), refused]);
+        }
+        await dequeue(cmd.id);
+        await refreshOutbox();
+      }
+    } finally {
+      flushing.current = false;
+      await refreshOutbox();
+    }
+  }, [refreshOutbox, sessionId]);
+
+  useEffect(() => {
+    void refreshOutbox();
+    const socket: LevelwireSocket = io({ path: SOCKET_PATH, auth: { protocol: PROTOCOL_VERSION }, withCredentials: true });
+    socketRef.current = socket;
+    const merge = (incoming: SessionEvent[]) => {
+      const before = queryClient.getQueryData<SessionEvent[]>(key) ?? [];
+      const after = mergeEvents(before, incoming);
+      if (after === before) return;
+      const known = before.at(-1)?.seq ?? 0;
+      for (const e of after) if (e.seq > known) seenRef.current.push(e.seq);
+      queryClient.setQueryData<SessionEvent[]>(key, after);
+      void cacheLog(sessionId, after).catch(() => undefined);
+    };
+    const join = () => {
+      const log = queryClient.getQueryData<SessionEvent[]>(key) ?? [];
+      const gap = firstGap(log);
+      const afterSeq = gap === null ? (log.at(-1)?.seq ?? 0) : gap - 1;
+      socket.emit('session:join', { sessionId, afterSeq }, (res) => {
+        if (res.ok) {
+          merge(res.events);
+          setPresence(res.presence);
+          setLink('live');
+          void flush();
+        } else setLink('offline');
+      });
+    };
+    const onEvent = (event: SessionEvent) => {
+      if (event.sessionId !== sessionId) return;
+      const log = queryClient.getQueryData<SessionEvent[]>(key) ?? [];
+      const last = log.at(-1)?.seq ?? 0;
+      if (event.seq > last + 1) return join(); // a gap: catch up from the last seq held, in order
+      merge([event]);
+    };
+    socket.on('connect', join);
+    socket.on('disconnect', () => setLink('offline'));
+    socket.on('connect_error', () => setLink('offline'));
+    socket.on('presence:changed', (u) => u.sessionId === sessionId && setPresence(u.presence));
+    for (const type of EVENT_TYPES) socket.on(type, onEvent);
+    const online = () => socket.connected || socket.connect();
+    const offline = () => setLink('offline');
+    window.addEventListener('online', online);
+    window.addEventListener('offline', offline);
+    let lastRtt: number | undefined;
+    const ping = setInterval(() => {
+      if (!socket.connected) return;
+      const started = performance.now();
+      socket
+        .timeout(ACK_TIMEOUT_MS)
+        .emitWithAck('link:ping', { sessionId, ...(lastRtt !== undefined ? { rttMs: lastRtt } : {}) })
+        .then(() => {
+          lastRtt = Math.round(performance.now() - started);
+          setRttMs(lastRtt);
+        })
+        .catch(() => setRttMs(null));
+    }, PING_EVERY_MS);
+    const retry = setInterval(() => void flush(), ACK_TIMEOUT_MS);
+    return () => {
+      clearInterval(ping);
+      clearInterval(retry);
+      window.removeEventListener('online', online);
+      window.removeEventListener('offline', offline);
+      socket.disconnect();
+      socketRef.current = null;
+    };
+  }, [flush, key, queryClient, refreshOutbox, sessionId]);
+
+  const state = useMemo(() => foldEvents(events), [events]);
+
+  /** Queues a command and sends it when it can; resolves once it is safely in the outbox, with its id. */
+  const send = useCallback(
+    async (name: AppendingCommand, body: CommandBody): Promise<string> => {
+      const id = typeof body.id === 'string' ? body.id : crypto.randomUUID();
+      const payload = { ...body, id, sessionId, clientTs: new Date().toISOString() };
+      await enqueue({ id, sessionId, name, payload, queuedAt: nextQueuedAt(), attempts: 0 });
+      await refreshOutbox();
+      void flush();
+      return id;
+    },
+    [flush, refreshOutbox, sessionId],
+  );
+
+  const dismissRejected = useCallback((id: string) => setRejected((r) => r.filter((x) => x.id !== id)), []);
+
+  return { events, state, link, error, presence, rttMs, outbox, rejected, dismissRejected, send, seen: seenRef };
+}
