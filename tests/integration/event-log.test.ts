@@ -20,10 +20,14 @@ async function newSession() {
 const reading = (divisions: number) => ({ kind: 'level' as const, axis: 'x' as const, positionMm: 0, divisions, slopeUrad: divisions * 20 });
 
 describe('the session event log in PostgreSQL', () => {
-  it('opens a session with its first event at seq 1', async () => {
+  it('opens a session with its first event at seq 1, then its technician added as a participant', async () => {
     const id = await newSession();
     const events = await listEventsBySession(db, { sessionId: id });
-    expect(events.map((e) => [e.seq, e.type])).toEqual([[1, 'session:opened']]);
+    expect(events.map((e) => [e.seq, e.type])).toEqual([
+      [1, 'session:opened'],
+      [2, 'participant:added'],
+    ]);
+    expect(events[1]!.payload).toMatchObject({ userId: org.users.technician.id, part: 'technician' });
     expect(events[0]!.prevHash).toBe('');
   });
 
@@ -35,8 +39,8 @@ describe('the session event log in PostgreSQL', () => {
       ),
     );
     const events = await listEventsBySession(db, { sessionId: id });
-    expect(events.map((e) => e.seq)).toEqual(Array.from({ length: 26 }, (_, i) => i + 1));
-    expect(verifyChain(events)).toMatchObject({ ok: true, count: 26 });
+    expect(events.map((e) => e.seq)).toEqual(Array.from({ length: 27 }, (_, i) => i + 1));
+    expect(verifyChain(events)).toMatchObject({ ok: true, count: 27 });
   });
 
   it('stores a resent event once and answers with the stored copy', async () => {
@@ -47,7 +51,7 @@ describe('the session event log in PostgreSQL', () => {
     const again = await appendEvent(db, e);
     expect(first.duplicate).toBe(false);
     expect(again).toEqual({ event: first.event, duplicate: true });
-    expect(await listEventsBySession(db, { sessionId: id })).toHaveLength(2);
+    expect(await listEventsBySession(db, { sessionId: id })).toHaveLength(3);
   });
 
   it('refuses an event id already used in another session', async () => {
@@ -64,7 +68,7 @@ describe('the session event log in PostgreSQL', () => {
     const refusal = (q: Promise<unknown>) => q.then(() => 'changed', (e: { cause?: Error }) => e.cause?.message);
     expect(await refusal(db.execute(sql`update session_events set type = 'x' where session_id = ${id}`))).toMatch(/append-only: UPDATE refused/);
     expect(await refusal(db.execute(sql`delete from session_events where session_id = ${id}`))).toMatch(/append-only: DELETE refused/);
-    expect(await listEventsBySession(db, { sessionId: id })).toHaveLength(1);
+    expect(await listEventsBySession(db, { sessionId: id })).toHaveLength(2);
   });
 
   it('reads back events whose chain verifies, and names the first link broken by a change', async () => {
@@ -74,7 +78,7 @@ describe('the session event log in PostgreSQL', () => {
     }
     const events = await listEventsBySession(db, { sessionId: id });
     expect(verifyChain(events).ok).toBe(true);
-    const tampered = events.map((e) => (e.seq === 3 ? { ...e, payload: reading(0.5) } : e));
-    expect(verifyChain(tampered)).toMatchObject({ ok: false, brokenAtSeq: 3 });
+    const tampered = events.map((e) => (e.seq === 4 ? { ...e, payload: reading(0.5) } : e));
+    expect(verifyChain(tampered)).toMatchObject({ ok: false, brokenAtSeq: 4 });
   });
 });

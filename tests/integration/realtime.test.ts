@@ -15,7 +15,7 @@ beforeAll(async () => {
   org = await makeOrganisation(db, 'Realtime');
   other = await makeOrganisation(db, 'Outsider');
   rt = await bootRealtime(db);
-  const { session } = await openSession(db, { organisationId: org.organisationId, machineId: org.machineId, technician: org.users.technician, levelDivisionUrad: 20 });
+  const { session } = await openSession(db, { organisationId: org.organisationId, machineId: org.machineId, technician: org.users.technician, levelDivisionUrad: 20, experts: [org.users.expert.id] });
   sessionId = session.id;
 });
 afterAll(() => rt.close());
@@ -89,5 +89,80 @@ describe('socket.io realtime path', () => {
     const late = await rt.as(org.users.reviewer);
     const ack = await late.emitWithAck('session:join', { sessionId, afterSeq: 2 });
     expect(ack.ok && ack.events.map((e) => e.seq)).toEqual(all.filter((e) => e.seq > 2).map((e) => e.seq));
+  });
+
+  it('carries a move from the expert to the technician and the answer back, each stored once and in order', async () => {
+    const tech = await rt.as(org.users.technician);
+    const expert = await rt.as(org.users.expert);
+    await tech.emitWithAck('session:join', { sessionId, afterSeq: 0 });
+    await expert.emitWithAck('session:join', { sessionId, afterSeq: 0 });
+    const screws = (await listEventsBySession(db, { sessionId })).find((e) => e.type === 'session:opened')!.payload as { screws: { id: string; liftPerTurnMm: number }[] };
+    const screw = screws.screws[0]!;
+    const moveId = randomUUID();
+    const arriving = waitFor(tech, 'move:sent');
+    const sent = await expert.emitWithAck('move:send', { id: moveId, sessionId, stage: 'rough-level', screwId: screw.id, turns: 0.25, recommended: false });
+    expect(sent).toMatchObject({ ok: true, duplicate: false });
+    const move = await arriving;
+    // 0.25 turn of the fixture's 3 mm pitch (M24 coarse, ISO 261) raises 750 µm; a quarter turn is 90° of swing.
+    expect(move.payload).toMatchObject({ moveId, screwId: screw.id, turns: 0.25, degrees: 90, raiseUm: 0.25 * screw.liftPerTurnMm * 1000 });
+
+    const answered = waitFor(expert, 'move:answered');
+    const answerId = randomUUID();
+    const done = await tech.emitWithAck('move:answer', { id: answerId, sessionId, moveId, outcome: 'done', turns: 0.2 });
+    expect(done).toMatchObject({ ok: true, duplicate: false });
+    expect((await answered).payload).toMatchObject({ moveId, outcome: 'done', turns: 0.2, raiseUm: 0.2 * screw.liftPerTurnMm * 1000 });
+    // the same answer resent (a lost ack) is a duplicate, not a second answer; a new answer to it is refused
+    expect(await tech.emitWithAck('move:answer', { id: answerId, sessionId, moveId, outcome: 'done', turns: 0.2 })).toMatchObject({ ok: true, duplicate: true });
+    expect(await tech.emitWithAck('move:answer', { id: randomUUID(), sessionId, moveId, outcome: 'cannot', reason: 'seized' })).toMatchObject({
+      ok: false,
+      error: { code: 'conflict:move', field: 'moveId' },
+    });
+  });
+
+  it('refuses an answer to a move that was never sent, naming moveId, and a move from the technician', async () => {
+    const tech = await rt.as(org.users.technician);
+    const before = (await listEventsBySession(db, { sessionId })).length;
+    expect(await tech.emitWithAck('move:answer', { id: randomUUID(), sessionId, moveId: randomUUID(), outcome: 'cannot', reason: 'no such screw' })).toMatchObject({
+      ok: false,
+      error: { code: 'bad_request:moveId', field: 'moveId' },
+    });
+    expect(await tech.emitWithAck('move:send', { id: randomUUID(), sessionId, stage: 'twist', screwId: randomUUID(), turns: 1 })).toMatchObject({
+      ok: false,
+      error: { code: 'forbidden:move' },
+    });
+    expect(await tech.emitWithAck('move:answer', { id: randomUUID(), sessionId, moveId: randomUUID(), outcome: 'cannot', reason: '' })).toMatchObject({
+      ok: false,
+      error: { field: 'reason' },
+    });
+    expect((await listEventsBySession(db, { sessionId })).length).toBe(before);
+  });
+
+  it('lets a checklist item of the stage be marked and refuses one that is not on it', async () => {
+    const tech = await rt.as(org.users.technician);
+    expect(await tech.emitWithAck('check:mark', { id: randomUUID(), sessionId, stage: 'prepare', item: 'table-clean', done: true })).toMatchObject({ ok: true });
+    expect(await tech.emitWithAck('check:mark', { id: randomUUID(), sessionId, stage: 'prepare', item: 'coffee', done: true })).toMatchObject({
+      ok: false,
+      error: { code: 'bad_request:item', field: 'item' },
+    });
+  });
+
+  it('converts a reversal into slope and zero error (reversal formulas, TRADE.md) and keeps the stage it was taken in', async () => {
+    const tech = await rt.as(org.users.technician);
+    const ack = await tech.emitWithAck('reading:submit', { id: randomUUID(), sessionId, reading: { kind: 'reversal', stage: 'zero-level', axis: 'x', firstDiv: 3, secondDiv: -1 } });
+    expect(ack.ok).toBe(true);
+    const stored = (await listEventsBySession(db, { sessionId })).at(-1)!;
+    // slope = (r0 − r180) / 2 = 2 div; zero error = (r0 + r180) / 2 = 1 div, so |r0 + r180| = 2 div > 0.5: does not repeat.
+    expect(stored.payload).toMatchObject({ kind: 'reversal', stage: 'zero-level', slopeDiv: 2, zeroErrorDiv: 1, repeats: false });
+  });
+
+  it('ends the session, after which nothing more is recorded (409)', async () => {
+    const { session } = await openSession(db, { organisationId: org.organisationId, machineId: org.machineId, technician: org.users.technician, levelDivisionUrad: 20, experts: [org.users.expert.id] });
+    const expert = await rt.as(org.users.expert);
+    const tech = await rt.as(org.users.technician);
+    expect(await expert.emitWithAck('session:end', { id: randomUUID(), sessionId: session.id })).toMatchObject({ ok: true });
+    expect(await tech.emitWithAck('reading:submit', { id: randomUUID(), sessionId: session.id, reading: { kind: 'level', axis: 'x', positionMm: 0, divisions: 1 } })).toMatchObject({
+      ok: false,
+      error: { code: 'conflict:session' },
+    });
   });
 });
