@@ -253,7 +253,8 @@ export function recommendedMoves(s: SessionState, model: BaseModel | null = base
   return recommendMoves({ stage: adjust, screws, state: model.state, response: nominalResponse(screws, s.travelMm), tolerances: tolerancesOf(s) });
 }
 
-/** A move of `turns` on a screw of the session, in µm, turns and degrees. */
+/** A move of `turns` on a screw of the session, in µm (to the nanometre, dropping float noise), turns and degrees. */
 export function moveOfTurns(screw: SessionScrew, turns: number): ScrewMove {
-  return screwMove(screw.id, turns * screw.liftPerTurnMm * 1000, screw.liftPerTurnMm);
+  const raiseUm = Math.round(turns * screw.liftPerTurnMm * 1e6) / 1000;
+  return { ...screwMove(screw.id, raiseUm, screw.liftPerTurnMm), turns, degrees: turns * 360 };
 }

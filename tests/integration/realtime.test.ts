@@ -104,13 +104,13 @@ describe('socket.io realtime path', () => {
     expect(sent).toMatchObject({ ok: true, duplicate: false });
     const move = await arriving;
     // 0.25 turn of the fixture's 3 mm pitch (M24 coarse, ISO 261) raises 750 µm; a quarter turn is 90° of swing.
-    expect(move.payload).toMatchObject({ moveId, screwId: screw.id, turns: 0.25, degrees: 90, raiseUm: 0.25 * screw.liftPerTurnMm * 1000 });
+    expect(move.payload).toMatchObject({ moveId, screwId: screw.id, turns: 0.25, degrees: 90, raiseUm: 750 });
 
     const answered = waitFor(expert, 'move:answered');
     const answerId = randomUUID();
     const done = await tech.emitWithAck('move:answer', { id: answerId, sessionId, moveId, outcome: 'done', turns: 0.2 });
     expect(done).toMatchObject({ ok: true, duplicate: false });
-    expect((await answered).payload).toMatchObject({ moveId, outcome: 'done', turns: 0.2, raiseUm: 0.2 * screw.liftPerTurnMm * 1000 });
+    expect((await answered).payload).toMatchObject({ moveId, outcome: 'done', turns: 0.2, raiseUm: 600 });
     // the same answer resent (a lost ack) is a duplicate, not a second answer; a new answer to it is refused
     expect(await tech.emitWithAck('move:answer', { id: answerId, sessionId, moveId, outcome: 'done', turns: 0.2 })).toMatchObject({ ok: true, duplicate: true });
     expect(await tech.emitWithAck('move:answer', { id: randomUUID(), sessionId, moveId, outcome: 'cannot', reason: 'seized' })).toMatchObject({
