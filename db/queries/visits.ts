@@ -1,7 +1,7 @@
 import { and, asc, count, desc, eq, gte, ilike, inArray, lt, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { Db } from '../client';
-import { customers, instruments, machines, sites, users, visitInstruments, visits, type Role } from '../schema';
+import { customers, instruments, levelingSessions, machines, sites, users, visitInstruments, visits, type Role } from '../schema';
 import { AppError } from '@/lib/errors';
 import { likePattern, type ListQuery, type Page } from '@/lib/list-query';
 import { addDays } from '@/lib/dates';
@@ -195,6 +195,8 @@ export async function listVisitInstruments(db: Db, { visitId }: { visitId: strin
       kind: instruments.kind,
       model: instruments.model,
       serial: instruments.serial,
+      sensitivityValue: instruments.sensitivityValue,
+      sensitivityUnit: instruments.sensitivityUnit,
       calibrationDue: instruments.calibrationDue,
       overrideReason: visitInstruments.overrideReason,
       overrideAt: visitInstruments.overrideAt,
@@ -279,4 +281,13 @@ export async function listActiveInstruments(db: Db, { organisationId }: Org) {
     .from(instruments)
     .where(and(eq(instruments.organisationId, organisationId), eq(instruments.active, true)))
     .orderBy(asc(instruments.kind), asc(instruments.serial));
+}
+
+/** The leveling sessions opened for a visit, newest first. */
+export async function listVisitSessions(db: Db, { visitId }: { visitId: string }) {
+  return db
+    .select({ id: levelingSessions.id, state: levelingSessions.state, createdAt: levelingSessions.createdAt, lastSeq: levelingSessions.lastSeq })
+    .from(levelingSessions)
+    .where(eq(levelingSessions.visitId, visitId))
+    .orderBy(desc(levelingSessions.createdAt));
 }

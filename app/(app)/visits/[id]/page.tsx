@@ -2,7 +2,9 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { db } from '@/db/client';
-import { getVisit, listActiveInstruments, listVisitInstruments } from '@/db/queries/visits';
+import { getVisit, listActiveInstruments, listVisitInstruments, listVisitSessions } from '@/db/queries/visits';
+import { StartVisitSession } from '@/components/visits/start-visit-session';
+import { convertSlope, type SlopeUnit } from '@/lib/leveling/units';
 import { LocalTime } from '@/components/visits/local-time';
 import { VisitActions } from '@/components/visits/visit-actions';
 import { VisitInstruments } from '@/components/visits/visit-instruments';
@@ -29,10 +31,14 @@ export default async function VisitPage({ params }: { params: Promise<{ id: stri
   const isAdmin = can(actor, 'visit:write');
   const open = visit.state === 'scheduled' || visit.state === 'in_progress';
   const mayChangeInstruments = open && (isAdmin || actor.id === visit.technicianId);
-  const [chosen, available] = await Promise.all([
+  const [chosen, available, sessions] = await Promise.all([
     listVisitInstruments(db(), { visitId: id }),
     mayChangeInstruments ? listActiveInstruments(db(), { organisationId: actor.organisationId }) : Promise.resolve([]),
+    listVisitSessions(db(), { visitId: id }),
   ]);
+  const level = chosen.find((c) => c.kind === 'level' && c.sensitivityValue !== null && c.sensitivityUnit);
+  const levelDivisionUrad = level ? Math.round(convertSlope(level.sensitivityValue!, level.sensitivityUnit as SlopeUnit, 'urad') * 1000) / 1000 : 20;
+  const mayStart = open && actor.id === visit.technicianId;
   const visitDay = todayUtc(visit.scheduledFor);
   const onDay = visitDay > today ? visitDay : today;
 
@@ -95,6 +101,27 @@ export default async function VisitPage({ params }: { params: Promise<{ id: stri
         chosen={chosen.map((c) => ({ ...c, status: calibrationStatus(c.calibrationDue, onDay), overrideAt: c.overrideAt?.toISOString() ?? null }))}
         available={available.map((a) => ({ ...a, status: calibrationStatus(a.calibrationDue, onDay) }))}
       />
+      <section aria-labelledby="sessions-h" className="grid gap-3 rounded-xl border-2 border-rule bg-card p-4">
+        <h2 id="sessions-h" className="text-xl font-bold">
+          Leveling sessions
+        </h2>
+        {sessions.length > 0 ? (
+          <ul className="grid gap-2">
+            {sessions.map((s) => (
+              <li key={s.id}>
+                <Link href={`/sessions/${s.id}`} className="inline-flex min-h-12 items-center font-semibold text-spirit underline underline-offset-4">
+                  Session opened {s.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC · {s.state.replace('_', ' ')} · {s.lastSeq} events
+                </Link>
+              </li>
+            ))}
+          </ul>
+        ) : (
+          <p className="text-ink-soft">No session yet.</p>
+        )}
+        {mayStart && (
+          <StartVisitSession visitId={id} machineId={machine.id} expertId={visit.expertId} levelDivisionUrad={levelDivisionUrad} levelLabel={level ? `${level.model} · ${level.serial}` : null} />
+        )}
+      </section>
       {isAdmin && <VisitActions visitId={id} state={visit.state} scheduledFor={visit.scheduledFor.toISOString()} notes={visit.notes} />}
     </main>
   );
