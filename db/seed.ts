@@ -1,10 +1,13 @@
 // The invented demo scenario, seeded once. Every name, place and serial here is made up for Levelwire's demo.
+import { randomBytes } from 'node:crypto';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import bcrypt from 'bcryptjs';
-import { eq } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import { footprintTemplate } from '@/lib/fleet/footprint';
+import { pickDemoSeed, VIRTUAL_TECHNICIAN_NAME } from '@/lib/session/virtual-technician';
 import { screwRow } from './queries/machines';
+import { getMachineSnapshot, listLiveDemoSessionsOfMachine, listOrdinarySessionsOfTechnician, openSession } from './queries/sessions';
 import { createDb, type Db } from './client';
 import { contacts, customers, instruments, machines, organisations, screws, sites, users, visits } from './schema';
 
@@ -47,6 +50,12 @@ const CUSTOMERS = [
   },
 ];
 
+/** The demo's virtual technician: a technician account nobody signs in to (its password is random and thrown away). */
+export const VIRTUAL_TECHNICIAN_EMAIL = 'virtual-technician@northmere.test';
+
+/** Sensitivity of the demo level: 0.02 mm/m a division, 20 µrad (JIS B 7510 grade). */
+const DEMO_LEVEL_DIVISION_URAD = 20;
+
 /** Months (and days) back from today as an ISO date. */
 function daysAgo(days: number, from: Date): string {
   return new Date(from.getTime() - days * 86_400_000).toISOString().slice(0, 10);
@@ -55,7 +64,86 @@ function daysAgo(days: number, from: Date): string {
 /** Seeds the demo organisation when it is not there yet; returns whether it wrote anything. */
 export async function seedDemo(db: Db, now = new Date()): Promise<boolean> {
   const [existing] = await db.select().from(organisations).where(eq(organisations.name, DEMO_ORGANISATION));
-  if (existing) return false;
+  const wroteFleet = existing ? false : await seedFleet(db, now);
+  const wroteSessions = await seedDemoSessions(db);
+  return wroteFleet || wroteSessions;
+}
+
+/** A virtual technician user of an organisation (role technician, an unknowable password); found by email when there. */
+export async function ensureVirtualTechnician(db: Db, { organisationId, email }: { organisationId: string; email: string }) {
+  const [found] = await db.select().from(users).where(sql`lower(${users.email}) = lower(${email})`);
+  if (found) return found;
+  const passwordHash = await bcrypt.hash(randomBytes(32).toString('base64url'), 10);
+  const [made] = await db
+    .insert(users)
+    .values({ organisationId, email, name: VIRTUAL_TECHNICIAN_NAME, role: 'technician', passwordHash, unitSystem: 'metric' })
+    .onConflictDoNothing()
+    .returning();
+  if (made) return made;
+  const [raced] = await db.select().from(users).where(sql`lower(${users.email}) = lower(${email})`);
+  return raced!;
+}
+
+/**
+ * Opens a demo session on a machine, worked by the virtual technician: its virtual seed is the first one the engine's
+ * moves bring to as-left on this footprint (see pickDemoSeed), so a newcomer coaching it can finish.
+ */
+export async function openDemoSession(
+  db: Db,
+  input: { organisationId: string; machineId: string; technician: { id: string; name: string }; experts?: string[]; observers?: string[]; levelDivisionUrad?: number },
+) {
+  const levelDivisionUrad = input.levelDivisionUrad ?? DEMO_LEVEL_DIVISION_URAD;
+  const snapshot = await getMachineSnapshot(db, { organisationId: input.organisationId, machineId: input.machineId });
+  const virtualSeed = pickDemoSeed({ ...snapshot, levelDivisionUrad });
+  return openSession(db, { ...input, levelDivisionUrad, virtualSeed });
+}
+
+/**
+ * The demo's sessions, each made only when missing: a live demo session on the walkthrough machine worked by the
+ * virtual technician (Ewan Marsh coaches; Rhea Quill and Tess Alder watch), made again when the last one has ended, so
+ * `npm start` always offers one; and one ordinary session with Tess Alder as technician and Ewan Marsh as expert, for
+ * trying the field view by hand (made once).
+ */
+export async function seedDemoSessions(db: Db): Promise<boolean> {
+  const [org] = await db.select().from(organisations).where(eq(organisations.name, DEMO_ORGANISATION));
+  if (!org) return false;
+  const organisationId = org.id;
+  const [machine] = await db.select().from(machines).where(and(eq(machines.organisationId, organisationId), eq(machines.serial, DEMO_MACHINE_SERIAL)));
+  if (!machine) return false;
+  const people = await db.select().from(users).where(eq(users.organisationId, organisationId));
+  const byEmail = (email: string) => people.find((p) => p.email.toLowerCase() === email)!;
+  const tech = byEmail('tech@northmere.test');
+  const expert = byEmail('expert@northmere.test');
+  const reviewer = byEmail('reviewer@northmere.test');
+  if (!tech || !expert || !reviewer) return false;
+  let wrote = false;
+
+  const virtual = await ensureVirtualTechnician(db, { organisationId, email: VIRTUAL_TECHNICIAN_EMAIL });
+  if ((await listLiveDemoSessionsOfMachine(db, { organisationId, machineId: machine.id })).length === 0) {
+    await openDemoSession(db, {
+      organisationId,
+      machineId: machine.id,
+      technician: { id: virtual.id, name: virtual.name },
+      experts: [expert.id],
+      observers: [reviewer.id, tech.id],
+    });
+    wrote = true;
+  }
+  if ((await listOrdinarySessionsOfTechnician(db, { machineId: machine.id, technicianId: tech.id })).length === 0) {
+    await openSession(db, {
+      organisationId,
+      machineId: machine.id,
+      technician: { id: tech.id, name: tech.name },
+      levelDivisionUrad: DEMO_LEVEL_DIVISION_URAD,
+      experts: [expert.id],
+    });
+    wrote = true;
+  }
+  return wrote;
+}
+
+/** The organisation, its people, fleet, visit and instruments. */
+async function seedFleet(db: Db, now: Date): Promise<boolean> {
   await db.transaction(async (tx) => {
     const [org] = await tx.insert(organisations).values({ name: DEMO_ORGANISATION }).returning();
     const organisationId = org!.id;

@@ -1,11 +1,11 @@
 import { randomUUID } from 'node:crypto';
-import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, isNotNull, sql } from 'drizzle-orm';
 import type { Db } from '../client';
-import { customers, levelingSessions, machines, sessionParticipants, sites, users, visits, type LevelingSession, type Role } from '../schema';
+import { customers, levelingSessions, machines, sessionEvents, sessionParticipants, sites, users, visits, type LevelingSession, type Role } from '../schema';
 import { AppError } from '@/lib/errors';
 import { DEFAULT_TOLERANCES } from '@/lib/leveling/stages';
 import type { SessionScrew } from '@/lib/session/events';
-import { appendEventInTx, type Tx } from './events';
+import { appendEventInTx, toSessionEvent, type Tx } from './events';
 
 /** A session with what the views draw: its machine and footprint. Null when absent or in another organisation. */
 export async function getSessionForOrganisation(db: Db, { sessionId, organisationId }: { sessionId: string; organisationId: string }) {
@@ -47,6 +47,99 @@ export async function listSessionsByOrganisation(db: Db, { organisationId, limit
     .where(eq(levelingSessions.organisationId, organisationId))
     .orderBy(desc(levelingSessions.createdAt))
     .limit(limit);
+}
+
+/**
+ * The sessions a user may see, newest first, with the user's standing in each: their part, or `reader` for the
+ * organisation's reviewers and admins (`readsAll`), who see every session; everyone else sees only their own.
+ */
+export async function listSessionsForUser(
+  db: Db,
+  { organisationId, userId, readsAll, limit = 50 }: { organisationId: string; userId: string; readsAll: boolean; limit?: number },
+) {
+  const rows = await db
+    .select({
+      id: levelingSessions.id,
+      state: levelingSessions.state,
+      createdAt: levelingSessions.createdAt,
+      lastSeq: levelingSessions.lastSeq,
+      demo: sql<boolean>`${levelingSessions.virtualSeed} is not null`,
+      machineId: machines.id,
+      machineModel: machines.model,
+      machineSerial: machines.serial,
+      siteName: sites.name,
+      customerName: customers.name,
+      technicianId: users.id,
+      technicianName: users.name,
+      part: sessionParticipants.part,
+    })
+    .from(levelingSessions)
+    .innerJoin(machines, eq(machines.id, levelingSessions.machineId))
+    .innerJoin(sites, eq(sites.id, machines.siteId))
+    .innerJoin(customers, eq(customers.id, sites.customerId))
+    .innerJoin(users, eq(users.id, levelingSessions.technicianId))
+    .leftJoin(sessionParticipants, and(eq(sessionParticipants.sessionId, levelingSessions.id), eq(sessionParticipants.userId, userId)))
+    .where(and(eq(levelingSessions.organisationId, organisationId), readsAll ? undefined : isNotNull(sessionParticipants.part)))
+    .orderBy(desc(levelingSessions.createdAt), desc(levelingSessions.id))
+    .limit(limit);
+  return rows.map(({ part, ...r }) => ({ ...r, standing: part ?? ('reader' as const) }));
+}
+export type SessionListRow = Awaited<ReturnType<typeof listSessionsForUser>>[number];
+
+/** What the virtual technician needs to know of a session before acting: null when absent. */
+export async function getSessionRunner(db: Db, sessionId: string) {
+  const [row] = await db
+    .select({ id: levelingSessions.id, technicianId: levelingSessions.technicianId, state: levelingSessions.state, virtualSeed: levelingSessions.virtualSeed })
+    .from(levelingSessions)
+    .where(eq(levelingSessions.id, sessionId));
+  return row ?? null;
+}
+
+/** Live demo sessions (a virtual seed set), for the virtual technician to pick up after a restart. */
+export async function listLiveDemoSessionIds(db: Db): Promise<string[]> {
+  const rows = await db
+    .select({ id: levelingSessions.id })
+    .from(levelingSessions)
+    .where(and(eq(levelingSessions.state, 'live'), isNotNull(levelingSessions.virtualSeed)));
+  return rows.map((r) => r.id);
+}
+
+/** Live demo sessions of one machine (the seed keeps one at a time). */
+export async function listLiveDemoSessionsOfMachine(db: Db, { organisationId, machineId }: { organisationId: string; machineId: string }) {
+  return db
+    .select({ id: levelingSessions.id, technicianId: levelingSessions.technicianId })
+    .from(levelingSessions)
+    .where(
+      and(
+        eq(levelingSessions.organisationId, organisationId),
+        eq(levelingSessions.machineId, machineId),
+        eq(levelingSessions.state, 'live'),
+        isNotNull(levelingSessions.virtualSeed),
+      ),
+    );
+}
+
+/** Ordinary (not demo) sessions of one machine run by one technician, in any state. */
+export async function listOrdinarySessionsOfTechnician(db: Db, { machineId, technicianId }: { machineId: string; technicianId: string }) {
+  return db
+    .select({ id: levelingSessions.id })
+    .from(levelingSessions)
+    .where(
+      and(
+        eq(levelingSessions.machineId, machineId),
+        eq(levelingSessions.technicianId, technicianId),
+        sql`${levelingSessions.virtualSeed} is null`,
+      ),
+    );
+}
+
+/** One stored event of a session by its id, or null (checks a resend before any work is repeated). */
+export async function getSessionEventById(db: Db, { sessionId, id }: { sessionId: string; id: string }) {
+  const [row] = await db
+    .select()
+    .from(sessionEvents)
+    .where(and(eq(sessionEvents.sessionId, sessionId), eq(sessionEvents.id, id)));
+  return row ? toSessionEvent(row) : null;
 }
 
 /** A session's header and the caller's part in it (null: not a participant). Null when absent or another organisation's. */
@@ -106,6 +199,11 @@ async function machineSnapshot(tx: Tx, organisationId: string, machineId: string
     },
     screws,
   };
+}
+
+/** The machine as a session would record it now (see openSession); throws 404 naming machineId when absent. */
+export async function getMachineSnapshot(db: Db, { organisationId, machineId }: { organisationId: string; machineId: string }) {
+  return db.transaction((tx) => machineSnapshot(tx, organisationId, machineId));
 }
 
 /** Active users of the organisation by id; throws 400 naming the field when one is missing or has the wrong role. */

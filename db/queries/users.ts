@@ -22,6 +22,15 @@ export async function listUsersByOrganisation(db: Db, { organisationId }: { orga
     .orderBy(asc(users.name), asc(users.id));
 }
 
+/** Active people of the organisation, optionally of one role, by name: for pickers (experts to coach, observers). */
+export async function listActivePeople(db: Db, { organisationId, role }: { organisationId: string; role?: Role | undefined }) {
+  return db
+    .select({ id: users.id, name: users.name, role: users.role })
+    .from(users)
+    .where(and(eq(users.organisationId, organisationId), eq(users.active, true), role ? eq(users.role, role) : undefined))
+    .orderBy(asc(users.name), asc(users.id));
+}
+
 /**
  * Changes a user's role or active flag. The organisation's active admins are locked first, so two admins
  * demoting each other at once cannot leave it without one. Refused with 409: removing the last active
