@@ -6,6 +6,7 @@ import { assertProductionSecrets, env } from './lib/env';
 import { SOCKET_PATH } from './lib/realtime/contract';
 import { attachRealtime } from './lib/realtime/server';
 import { startReminderTimer } from './lib/fleet/reminder-timer';
+import { startVirtualTechnician } from './lib/session/virtual-technician';
 
 const config = env();
 assertProductionSecrets(config);
@@ -16,6 +17,8 @@ await app.prepare();
 const handle = app.getRequestHandler();
 const httpServer = createServer((req, res) => void handle(req, res));
 const realtime = attachRealtime(httpServer, { db: db(), secret: config.NEXTAUTH_SECRET });
+// Works demo sessions (a virtual seed set) through the same service as a person's commands.
+const virtualTechnician = startVirtualTechnician({ db: db() });
 const stopReminders = startReminderTimer(db(), config.REMINDER_INTERVAL_MINUTES);
 
 if (dev) {
@@ -37,6 +40,7 @@ async function shutdown(signal: string) {
   const timer = setTimeout(() => process.exit(1), 10_000);
   timer.unref();
   stopReminders();
+  await virtualTechnician.stop();
   await realtime.close();
   await db().$client.end();
   process.exit(0);
