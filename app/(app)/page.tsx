@@ -1,6 +1,6 @@
 import Link from 'next/link';
 import { db } from '@/db/client';
-import { listSessionsByOrganisation } from '@/db/queries/sessions';
+import { listSessionsForUser } from '@/db/queries/sessions';
 import { can } from '@/lib/auth/policy';
 import { requirePageActor } from '@/lib/auth/session';
 import { MachinePicker } from '@/components/session/machine-picker';
@@ -9,6 +9,14 @@ import { countDueByStatus, getReminderDaysBefore } from '@/db/queries/due';
 import { todayUtc } from '@/lib/dates';
 
 export const dynamic = 'force-dynamic';
+
+/** The caller's standing in a session, as the list says it. */
+const standingLabel: Record<string, string> = {
+  technician: 'You measure',
+  expert: 'You coach',
+  observer: 'You watch',
+  reader: 'You read',
+};
 
 const stateLabel: Record<string, string> = {
   planned: 'Planned',
@@ -24,7 +32,7 @@ export default async function HomePage() {
   const organisationId = actor.organisationId;
   const soonDays = await getReminderDaysBefore(db(), { organisationId });
   const [sessions, due] = await Promise.all([
-    listSessionsByOrganisation(db(), { organisationId }),
+    listSessionsForUser(db(), { organisationId, userId: actor.id, readsAll: actor.role === 'reviewer' || actor.role === 'admin' }),
     countDueByStatus(db(), { organisationId, today: todayUtc(new Date()), soonDays }),
   ]);
   const mayOpen = can(actor, 'session:open');
@@ -34,10 +42,12 @@ export default async function HomePage() {
       <DueSummary overdue={due.overdue} dueSoon={due.dueSoon} soonDays={soonDays} />
       <section aria-labelledby="sessions-h">
         <h1 id="sessions-h" className="text-2xl font-bold">
-          Sessions
+          {actor.role === 'reviewer' || actor.role === 'admin' ? 'Sessions of your organisation' : 'Your sessions'}
         </h1>
         {sessions.length === 0 ? (
-          <p className="mt-3 text-ink-soft">No sessions yet.{mayOpen ? ' Start one on a machine below.' : ''}</p>
+          <p className="mt-3 text-ink-soft">
+            No sessions for you yet.{mayOpen ? ' Start one on a machine below.' : ' A technician adds you when they open one.'}
+          </p>
         ) : (
           <ul className="mt-3 grid gap-2">
             {sessions.map((s) => (
@@ -48,9 +58,13 @@ export default async function HomePage() {
                 >
                   <span>
                     <span className="font-bold">{s.machineModel}</span>
-                    <span className="text-ink-soft"> · {s.customerName} · {s.technicianName}</span>
+                    {s.demo && <span className="ml-2 rounded-full border-2 border-spirit px-2 text-sm font-bold text-spirit">Demo</span>}
+                    <span className="block text-ink-soft">
+                      {s.customerName} · {s.siteName} · technician {s.technicianName}
+                    </span>
                   </span>
-                  <span className="flex items-center gap-3">
+                  <span className="flex flex-wrap items-center gap-3">
+                    <span className="text-sm font-semibold">{standingLabel[s.standing]}</span>
                     <span className="tabular text-sm text-ink-soft">{s.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC</span>
                     <span className={`rounded-full px-3 py-1 text-sm font-bold ${s.state === 'live' ? 'bg-vial text-ink' : 'bg-rule'}`}>
                       {stateLabel[s.state]}

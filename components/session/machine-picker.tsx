@@ -31,7 +31,7 @@ export function MachinePicker({ mayOpen }: { mayOpen: boolean }) {
                 {m.customerName} · {m.siteName} · serial <span className="tabular">{m.serial}</span> · {m.screwCount} screws
               </p>
             </div>
-            {mayOpen && <OpenSessionButton machineId={m.id} />}
+            {mayOpen && <OpenSessionButton machineId={m.id} machineLabel={`${m.model} (${m.serial})`} />}
           </li>
         ))}
       </ul>

@@ -3,7 +3,7 @@ import { db } from '@/db/client';
 import { listEventsBySession } from '@/db/queries/events';
 import { requireActor } from '@/lib/auth/session';
 import { parseWith, route } from '@/lib/http';
-import { loadSessionFor } from '@/lib/session/service';
+import { accessSession } from '@/lib/session/service';
 import { eventsQuery, sessionParams } from '../schema';
 
 type Ctx = { params: Promise<{ id: string }> };
@@ -13,7 +13,7 @@ export const GET = route<Ctx>('session', async (req, { params }) => {
   const actor = await requireActor();
   const { id } = parseWith(sessionParams, await params, 'session');
   const { after } = parseWith(eventsQuery, Object.fromEntries(new URL(req.url).searchParams), 'session');
-  await loadSessionFor(db(), actor, id);
+  await accessSession(db(), actor, id);
   const events = await listEventsBySession(db(), { sessionId: id, afterSeq: after });
   return NextResponse.json({ events });
 });
