@@ -47,7 +47,8 @@ const tech = await signIn('technician', { width: 412, height: 915 });
 await tech.getByRole('heading', { name: 'Start leveling a machine' }).waitFor();
 await tech.screenshot({ path: `${out}/start-phone.png`, fullPage: true });
 await tech.getByLabel(/^Find a machine/).fill(DEMO_MACHINE_SERIAL);
-await tech.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL }).getByRole('button', { name: 'Start leveling' }).click();
+await tech.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL }).getByRole('button', { name: /^Start leveling/ }).click();
+await tech.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL }).getByRole('button', { name: /^Open (with|without)/ }).click();
 await tech.waitForURL(/\/field$/);
 const sessionPath = new URL(tech.url()).pathname.replace(/\/field$/, '');
 for (const [axis, station, div] of [['X', 'Front', '1.5'], ['X', 'Back', '-0.5'], ['Y', 'Middle', '-2']] as const) {

@@ -36,6 +36,8 @@ export default async function HomePage() {
     countDueByStatus(db(), { organisationId, today: todayUtc(new Date()), soonDays }),
   ]);
   const mayOpen = can(actor, 'session:open');
+  // A live demo first: a newcomer coaches the virtual technician before anything else.
+  sessions.sort((a, b) => Number(b.demo && b.state === 'live') - Number(a.demo && a.state === 'live'));
 
   return (
     <main className="mx-auto grid max-w-5xl gap-8 p-4 sm:p-6">
@@ -62,6 +64,9 @@ export default async function HomePage() {
                     <span className="block text-ink-soft">
                       {s.customerName} · {s.siteName} · technician {s.technicianName}
                     </span>
+                    {s.demo && s.state === 'live' && (
+                      <span className="block text-sm">A simulated machine: the virtual technician takes the readings and turns the screws you send.</span>
+                    )}
                   </span>
                   <span className="flex flex-wrap items-center gap-3">
                     <span className="text-sm font-semibold">{standingLabel[s.standing]}</span>
