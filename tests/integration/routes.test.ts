@@ -15,7 +15,8 @@ beforeAll(async () => {
   other = await makeOrganisation(db, 'Elsewhere');
   for (const role of ['technician', 'expert', 'reviewer'] as const) cookies[role] = await signInOverHttp(org.users[role].email);
   cookies.outsider = await signInOverHttp(other.users.technician.email);
-  const opened = await api('/api/sessions', { cookie: cookies.technician, method: 'POST', body: { machineId: org.machineId } });
+  // The expert coaches (a participant): only participants and the organisation's readers see a session's log.
+  const opened = await api('/api/sessions', { cookie: cookies.technician, method: 'POST', body: { machineId: org.machineId, experts: [org.users.expert.id] } });
   expect(opened.status).toBe(201);
   sessionId = (opened.json.session as { id: string }).id;
 });
