@@ -1,150 +1,349 @@
 'use client';
 
-import { useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { formatPosition } from '@/lib/display-units';
-import { fromZod } from '@/lib/errors';
-import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
-import { levelReadingInput } from '@/lib/session/commands';
-import { LinkBadge } from '@/components/session/link-badge';
+import type { UnitSystem } from '@/lib/leveling/units';
+import type { ReadingInput } from '@/lib/session/commands';
+import { currentRound, readingKey, stageChecklist, stagePlan, stageVerdict, stations, type PlannedReading, type Verdict } from '@/lib/session/derive';
+import { SESSION_STAGES, STAGE_GUIDES, STANDING_CAUTIONS, nextStage, type SessionStage } from '@/lib/session/stages';
+import { registerFieldWorker } from '@/components/session/register-field-worker';
 import { useLiveSession } from '@/components/session/use-live-session';
-import { Button } from '@/components/ui/button';
-import { SafetyNote } from '@/components/ui/safety-note';
-import { VialScale } from './vial-scale';
+import { answeredInOutbox, keyOfInput, pendingChecks, pendingNotes, pendingReadings, pendingStage, placementOf } from './field-logic';
+import { LinkStrip } from './link-strip';
+import { MoveCard } from './move-card';
+import { NotesPanel } from './notes-panel';
+import { PhotoPanel } from './photo-panel';
+import { ReadingEntry } from './reading-entry';
+import { StageReadings } from './stage-readings';
+import { StageStepper } from './stage-stepper';
+import { TopView } from './top-view';
 
-type Axis = 'x' | 'y';
-type Props = { sessionId: string; travelYMm: number; unitSystem: UnitSystem; machineLabel: string };
+type Props = {
+  sessionId: string;
+  unitSystem: UnitSystem;
+  machineLabel: string;
+  /** The table's size, for the top view (length along X, width along Y), when the machine record has it. */
+  tableMm: { lengthMm: number; widthMm: number } | null;
+};
 
-/** The technician's screen: enter level readings; each is stored and sent to the coach as it is taken. */
-export function FieldView({ sessionId, travelYMm, unitSystem, machineLabel }: Props) {
-  const { state, link, send: sendCommand } = useLiveSession(sessionId);
-  const [axis, setAxis] = useState<Axis>('x');
-  const stations = [
-    { label: 'Front', mm: -travelYMm / 2 },
-    { label: 'Middle', mm: 0 },
-    { label: 'Back', mm: travelYMm / 2 },
-  ];
-  const [positionMm, setPositionMm] = useState(0);
-  const [divisions, setDivisions] = useState<number | null>(null);
-  const [typed, setTyped] = useState('');
-  const [status, setStatus] = useState<{ tone: 'ok' | 'error'; text: string } | null>(null);
-  const [busy, setBusy] = useState(false);
+const verdictLook: Record<Verdict['status'], { text: string; cls: string }> = {
+  pass: { text: 'Pass', cls: 'bg-pass text-white' },
+  fail: { text: 'Fail', cls: 'bg-fail text-white' },
+  incomplete: { text: 'Incomplete', cls: 'bg-rule text-ink' },
+};
 
-  async function send() {
-    const value = typed.trim() !== '' ? Number(typed) : divisions;
-    if (value === null) {
-      setStatus({ tone: 'error', text: 'divisions: tap the vial or type where the bubble sits' });
-      return;
+type Spot = { axis: 'x' | 'y'; positionMm: number };
+
+/**
+ * The technician's screen during a session (phone and tablet first, big targets): moves from the coach on top, then
+ * the stage with its guide, cautions, checklist, the readings it asks for on a top view, the entry form, and notes
+ * and photos. Everything typed goes through the outbox, so the screen keeps working without a link.
+ */
+export function FieldView({ sessionId, unitSystem, machineLabel, tableMm }: Props) {
+  const { events, state, link, outbox, rejected, dismissRejected, send, seen } = useLiveSession(sessionId);
+
+  useEffect(() => {
+    void registerFieldWorker();
+  }, []);
+
+  const stage: SessionStage = pendingStage(outbox) ?? state.stage;
+  const guide = STAGE_GUIDES[stage];
+  const plan = useMemo(() => stagePlan(stage, state), [stage, state]);
+  const round = useMemo(() => currentRound(state, stage), [state, stage]);
+  const verdicts = useMemo(() => Object.fromEntries(SESSION_STAGES.map((s) => [s, stageVerdict(state, s)])) as Record<SessionStage, Verdict>, [state]);
+  const verdict = verdicts[stage];
+  const queuedReadings = useMemo(() => pendingReadings(outbox), [outbox]);
+  const stagePending = queuedReadings.filter((p) => (p.reading.stage ?? stage) === stage);
+  const pendingKeys = new Set(stagePending.map((p) => keyOfInput(p.reading)));
+  const answering = answeredInOutbox(outbox);
+  const moves = state.moves.filter((m) => m.status === 'pending' && !answering.has(m.moveId));
+  const checksQueued = pendingChecks(outbox);
+  const [localChecks, setLocalChecks] = useState<Record<string, { done: boolean; id: string }>>({});
+  const checklist = stageChecklist(stage, state.screws);
+  const ended = state.ended !== null;
+
+  const [selectedKey, setSelectedKey] = useState<string | null>(null);
+  const [spot, setSpot] = useState<Spot | null>(null);
+  const [confirmNext, setConfirmNext] = useState(false);
+  const [lastReadingId, setLastReadingId] = useState<string | null>(null);
+  useEffect(() => {
+    setSelectedKey(null);
+    setSpot(null);
+    setConfirmNext(false);
+  }, [stage]);
+
+  const firstOpen = plan.find((p) => !round.has(readingKey(p)) && !pendingKeys.has(readingKey(p)));
+  const selected: PlannedReading | null = spot
+    ? { kind: 'level', axis: spot.axis, positionMm: spot.positionMm, label: `Spot reading · ${spot.axis === 'x' ? 'X across' : 'Y along'}` }
+    : (plan.find((p) => readingKey(p) === selectedKey) ?? firstOpen ?? plan[0] ?? null);
+  const spotStations = stations(state.travelMm ?? 500, 3);
+  const showSpotChooser = spot !== null || plan.length === 0;
+
+  async function record(reading: ReadingInput) {
+    const id = await send('reading:submit', { reading });
+    setLastReadingId(id);
+    if (!spot && selected) {
+      const key = readingKey(selected);
+      const after = plan.slice(plan.findIndex((p) => readingKey(p) === key) + 1);
+      const next = [...after, ...plan].find((p) => readingKey(p) !== key && !round.has(readingKey(p)) && !pendingKeys.has(readingKey(p)));
+      setSelectedKey(next ? readingKey(next) : key);
     }
-    const parsed = levelReadingInput.safeParse({ kind: 'level', axis, positionMm, divisions: value });
-    if (!parsed.success) {
-      setStatus({ tone: 'error', text: fromZod(parsed.error, 'reading').message });
-      return;
-    }
-    setBusy(true);
-    await sendCommand('reading:submit', { reading: parsed.data });
-    setBusy(false);
-    setStatus({ tone: 'ok', text: 'Reading queued and sent' });
-    setTyped('');
-    setDivisions(null);
   }
 
-  const recent = state.readings.flatMap((r) => (r.kind === 'level' ? [r] : [])).slice(-8).reverse();
-  const stationName = (mm: number) => stations.find((s) => s.mm === mm)?.label ?? 'Other';
+  const lastStatus = (() => {
+    if (!lastReadingId) return null;
+    if (rejected.some((r) => r.id === lastReadingId)) return null; // shown as refused above
+    const stored = events.find((e) => e.id === lastReadingId);
+    if (stored) return `Reading stored as #${stored.seq}`;
+    if (outbox.some((c) => c.id === lastReadingId)) return link === 'live' ? 'Reading sending…' : 'Reading kept on this device; it goes out when the link is back';
+    return null;
+  })();
+
+  function enter(target: SessionStage) {
+    setConfirmNext(false);
+    void send('stage:enter', { stage: target });
+  }
+  const next = nextStage(stage);
+
+  function mark(item: string, done: boolean) {
+    const id = crypto.randomUUID();
+    setLocalChecks((c) => ({ ...c, [item]: { done, id } }));
+    void send('check:mark', { id, stage, item, done });
+  }
+  const isChecked = (item: string) => {
+    const local = localChecks[item];
+    if (local && !rejected.some((r) => r.id === local.id)) return local.done;
+    return checksQueued.get(item) ?? state.checks[item] ?? false;
+  };
+
+  const screwLabel = (id: string) => state.screws.find((s) => s.id === id)?.label ?? 'screw';
+  const storedInStage = state.readings.filter((r) => r.stage === stage);
+  const roundSeqs = new Set([...round.values()].map((r) => r.seq));
+
   return (
-    <main className="mx-auto grid max-w-3xl gap-5 p-4">
-      <div className="flex flex-wrap items-center justify-between gap-2">
-        <div>
+    <main className="mx-auto grid max-w-3xl gap-4 p-3 pb-16 sm:p-4">
+      <div className="sticky top-0 z-20 -mx-3 grid gap-2 border-b-2 border-rule bg-paper/95 px-3 py-2 backdrop-blur sm:-mx-4 sm:px-4">
+        <div className="flex flex-wrap items-baseline justify-between gap-x-3">
+          <h1 className="text-lg font-bold leading-tight">{machineLabel}</h1>
           <p className="text-sm font-semibold uppercase tracking-wide text-ink-soft">Field view</p>
-          <h1 className="text-2xl font-bold">{machineLabel}</h1>
         </div>
-        <LinkBadge link={link} />
+        <LinkStrip link={link} pending={outbox.length} rejected={rejected} onDismiss={dismissRejected} />
       </div>
 
-      <SafetyNote collapsible />
+      {ended && (
+        <p role="status" className="rounded-xl bg-steel p-3 text-lg font-bold text-paper">
+          This session has ended{state.ended?.reason ? `: ${state.ended.reason}` : ''}. Nothing more can be recorded.
+        </p>
+      )}
 
-      <section aria-labelledby="reading-h" className="grid gap-4 rounded-2xl border-2 border-ink bg-card p-4">
-        <h2 id="reading-h" className="text-xl font-bold">
-          Level reading
-        </h2>
-        <fieldset className="grid gap-2">
-          <legend className="font-semibold">Level lies along</legend>
-          <div className="grid grid-cols-2 gap-2">
-            {(['x', 'y'] as const).map((a) => (
-              <button
-                key={a}
-                type="button"
-                aria-pressed={axis === a}
-                onClick={() => setAxis(a)}
-                className={`min-h-14 rounded-lg border-2 border-ink text-lg font-bold ${axis === a ? 'bg-steel text-paper' : 'bg-card'}`}
-              >
-                {a === 'x' ? 'X · across' : 'Y · along'}
-                <span className="block text-sm font-normal">{a === 'x' ? 'marked end to the right' : 'marked end to the back'}</span>
-              </button>
-            ))}
-          </div>
-        </fieldset>
-        <fieldset className="grid gap-2">
-          <legend className="font-semibold">Station along Y travel</legend>
-          <div className="grid grid-cols-3 gap-2">
-            {stations.map((s) => (
-              <button
-                key={s.label}
-                type="button"
-                aria-pressed={positionMm === s.mm}
-                onClick={() => setPositionMm(s.mm)}
-                className={`min-h-14 rounded-lg border-2 border-ink font-bold ${positionMm === s.mm ? 'bg-steel text-paper' : 'bg-card'}`}
-              >
-                {s.label}
-                <span className="block text-sm font-normal tabular">{formatPosition(s.mm, unitSystem)}</span>
-              </button>
-            ))}
-          </div>
-        </fieldset>
-        <div className="grid gap-2">
-          <p className="font-semibold">Tap where the bubble sits</p>
-          <VialScale value={typed.trim() !== '' && Number.isFinite(Number(typed)) ? Number(typed) : divisions} onChange={(d) => { setDivisions(d); setTyped(''); }} />
-          <label className="flex flex-wrap items-center gap-3 font-semibold">
-            or type divisions
-            <input
-              inputMode="decimal"
-              name="divisions"
-              value={typed}
-              onChange={(e) => setTyped(e.target.value)}
-              placeholder={divisions === null ? 'e.g. +1.5' : String(divisions)}
-              className="min-h-12 w-36 rounded-lg border-2 border-ink px-3 text-lg tabular"
-            />
-          </label>
+      {moves.length > 0 && (
+        <section aria-label="Moves to make" className="grid gap-3">
+          {moves.map((m) => (
+            <MoveCard key={m.moveId} move={m} screwLabel={screwLabel(m.screwId)} sessionId={sessionId} unitSystem={unitSystem} onAnswer={async (body) => void (await send('move:answer', body))} />
+          ))}
+        </section>
+      )}
+
+      <StageStepper current={stage} verdicts={verdicts} onBack={enter} disabled={ended} />
+
+      <section data-testid="stage-panel" data-stage={stage} aria-labelledby="stage-h" className="grid gap-4 rounded-2xl border-2 border-ink bg-card p-3 sm:p-4">
+        <div className="flex flex-wrap items-center justify-between gap-2">
+          <h2 id="stage-h" className="text-2xl font-bold">
+            <span className="tabular text-ink-soft">{SESSION_STAGES.indexOf(stage) + 1}/10</span> {guide.title}
+          </h2>
+          <span data-testid="stage-verdict" data-status={verdict.status} className={`rounded-full px-4 py-1 text-lg font-bold ${verdictLook[verdict.status].cls}`}>
+            {verdictLook[verdict.status].text}
+          </span>
         </div>
-        <Button onClick={send} disabled={busy} className="min-h-16 text-xl">
-          {busy ? 'Sending…' : 'Record reading'}
-        </Button>
-        {status && (
-          <p role={status.tone === 'error' ? 'alert' : 'status'} className={`rounded-lg p-3 font-semibold ${status.tone === 'error' ? 'bg-fail/10 text-fail' : 'bg-pass/10 text-pass'}`}>
-            {status.text}
+
+        <details open className="rounded-lg border-l-8 border-bubble bg-bubble/10 p-3">
+          <summary className="min-h-10 cursor-pointer content-center font-bold">
+            ⚠ Cautions ({guide.cautions.length + STANDING_CAUTIONS.length})
+          </summary>
+          <ul className="mt-1 grid list-disc gap-1 pl-5 leading-snug">
+            {guide.cautions.map((c) => (
+              <li key={c} className="font-semibold">
+                {c}
+              </li>
+            ))}
+            {STANDING_CAUTIONS.map((c) => (
+              <li key={c}>{c}</li>
+            ))}
+          </ul>
+        </details>
+
+        <details open className="rounded-lg bg-paper p-3">
+          <summary className="min-h-10 cursor-pointer content-center font-bold">What to do</summary>
+          <ol className="mt-1 grid list-decimal gap-1 pl-5">
+            {guide.steps.map((s) => (
+              <li key={s}>{s}</li>
+            ))}
+          </ol>
+          <p className="mt-2">
+            <span className="font-semibold">Where: </span>
+            {guide.placement}
           </p>
+        </details>
+
+        {checklist.length > 0 && (
+          <fieldset className="grid gap-2">
+            <legend className="mb-1 text-lg font-bold">Checklist</legend>
+            {checklist.map((c) => (
+              <label key={c.id} className="flex min-h-14 cursor-pointer items-center gap-3 rounded-lg border-2 border-ink bg-card px-3 text-lg has-[:checked]:bg-pass/10">
+                <input type="checkbox" className="h-7 w-7 shrink-0 accent-spirit" checked={isChecked(c.id)} disabled={ended} onChange={(e) => mark(c.id, e.target.checked)} />
+                {c.label}
+              </label>
+            ))}
+          </fieldset>
+        )}
+
+        {plan.length > 0 && (
+          <div className="grid gap-2">
+            <h3 className="text-lg font-bold">Readings this stage asks for</h3>
+            <ul className="grid grid-cols-2 gap-2 sm:grid-cols-3">
+              {plan.map((p) => {
+                const key = readingKey(p);
+                const taken = round.has(key);
+                const waiting = pendingKeys.has(key);
+                const isSelected = !spot && selected !== null && readingKey(selected) === key;
+                return (
+                  <li key={key}>
+                    <button
+                      type="button"
+                      data-testid="planned-reading"
+                      data-key={key}
+                      data-taken={taken ? 'true' : 'false'}
+                      data-pending={waiting ? 'true' : 'false'}
+                      aria-pressed={isSelected}
+                      onClick={() => {
+                        setSpot(null);
+                        setSelectedKey(key);
+                      }}
+                      className={`grid min-h-14 w-full content-center rounded-lg border-2 px-2 py-1 text-left font-semibold ${
+                        isSelected ? 'border-ink bg-steel text-paper' : taken ? 'border-pass bg-pass/10' : waiting ? 'border-bubble bg-bubble/10' : 'border-ink bg-card'
+                      }`}
+                    >
+                      <span className="leading-tight">{p.label}</span>
+                      <span className="text-sm font-normal">{taken ? '✓ taken' : waiting ? '… pending' : 'to take'}</span>
+                    </button>
+                  </li>
+                );
+              })}
+            </ul>
+          </div>
+        )}
+
+        <TopView
+          screws={state.screws}
+          tableMm={tableMm}
+          travelYMm={state.travelMm}
+          placement={placementOf(selected)}
+          movingScrewIds={new Set(moves.map((m) => m.screwId))}
+        />
+
+        {showSpotChooser && (
+          <div className="grid gap-2 rounded-xl border-2 border-rule p-3">
+            <h3 className="font-bold">{plan.length === 0 ? 'Spot level reading (optional, e.g. as-found)' : 'Another level reading'}</h3>
+            <div className="grid grid-cols-2 gap-2">
+              {(['x', 'y'] as const).map((a) => (
+                <button
+                  key={a}
+                  type="button"
+                  aria-pressed={spot?.axis === a}
+                  onClick={() => setSpot({ axis: a, positionMm: spot?.positionMm ?? 0 })}
+                  className={`min-h-14 rounded-lg border-2 border-ink font-bold ${spot?.axis === a ? 'bg-steel text-paper' : 'bg-card'}`}
+                >
+                  {a === 'x' ? 'X · across' : 'Y · along'}
+                  <span className="block text-sm font-normal">{a === 'x' ? 'marked end to the right' : 'marked end to the back'}</span>
+                </button>
+              ))}
+            </div>
+            <div className="grid grid-cols-3 gap-2">
+              {spotStations.map((st) => (
+                <button
+                  key={st.label}
+                  type="button"
+                  aria-pressed={spot?.positionMm === st.positionMm}
+                  onClick={() => setSpot({ axis: spot?.axis ?? 'x', positionMm: st.positionMm })}
+                  className={`min-h-14 rounded-lg border-2 border-ink font-bold ${spot?.positionMm === st.positionMm ? 'bg-steel text-paper' : 'bg-card'}`}
+                >
+                  {st.label[0]!.toUpperCase() + st.label.slice(1)}
+                  <span className="block text-sm font-normal tabular">{formatPosition(st.positionMm, unitSystem)}</span>
+                </button>
+              ))}
+            </div>
+            {spot && plan.length > 0 && (
+              <button type="button" onClick={() => setSpot(null)} className="min-h-12 font-semibold underline underline-offset-4">
+                Back to the planned readings
+              </button>
+            )}
+          </div>
+        )}
+        {!showSpotChooser && (
+          <button type="button" onClick={() => setSpot({ axis: 'x', positionMm: 0 })} className="min-h-12 justify-self-start font-semibold underline underline-offset-4">
+            Another level reading
+          </button>
+        )}
+
+        {selected && !ended && (
+          <ReadingEntry
+            key={spot ? `spot:${spot.axis}:${spot.positionMm}` : readingKey(selected)}
+            target={selected}
+            stage={stage}
+            unitSystem={unitSystem}
+            screws={state.screws}
+            onRecord={record}
+          />
+        )}
+        {lastStatus && (
+          <p role="status" className="rounded-lg bg-pass/10 p-3 font-semibold text-pass">
+            {lastStatus}
+          </p>
+        )}
+
+        <StageReadings state={state} plan={plan} stored={storedInStage} roundSeqs={roundSeqs} pending={stagePending} verdict={verdict} unitSystem={unitSystem} />
+
+        {next && !ended && (
+          <div className="grid gap-2 border-t-2 border-rule pt-3">
+            {confirmNext ? (
+              <div role="alertdialog" aria-labelledby="confirm-h" className="grid gap-2 rounded-xl border-2 border-fail bg-fail/5 p-3">
+                <p id="confirm-h" className="text-lg font-bold">
+                  {guide.title} {verdict.status === 'fail' ? 'fails' : 'is not complete'}. Continue anyway?
+                </p>
+                <ul className="list-disc pl-5">
+                  {verdict.detail.map((d) => (
+                    <li key={d}>{d}</li>
+                  ))}
+                </ul>
+                <div className="grid grid-cols-2 gap-2">
+                  <button type="button" onClick={() => setConfirmNext(false)} className="min-h-14 rounded-xl border-2 border-ink bg-card text-lg font-bold">
+                    Stay
+                  </button>
+                  <button type="button" onClick={() => enter(next)} className="min-h-14 rounded-xl bg-fail text-lg font-bold text-white">
+                    Continue anyway
+                  </button>
+                </div>
+              </div>
+            ) : (
+              <button
+                type="button"
+                onClick={() => (verdict.status === 'pass' ? enter(next) : setConfirmNext(true))}
+                className={`min-h-16 rounded-xl text-xl font-bold ${verdict.status === 'pass' ? 'bg-spirit text-white' : 'border-2 border-ink bg-card'}`}
+              >
+                Next stage
+                <span className="block text-sm font-normal">{STAGE_GUIDES[next].title}</span>
+              </button>
+            )}
+          </div>
         )}
       </section>
 
-      <section aria-labelledby="log-h">
-        <h2 id="log-h" className="text-xl font-bold">
-          Readings so far
-        </h2>
-        <ol className="mt-2 grid gap-1" data-testid="reading-log">
-          {recent.map((r) => (
-            <li key={r.seq} className="grid grid-cols-[auto_1fr] gap-x-3 rounded-lg bg-card px-3 py-2">
-              <span className="tabular row-span-2 self-center text-ink-soft">#{r.seq}</span>
-              <span className="font-semibold">
-                {r.axis.toUpperCase()} · {stationName(r.positionMm)} <span className="tabular font-normal text-ink-soft">({formatPosition(r.positionMm, unitSystem)})</span>
-              </span>
-              <span className="tabular">
-                {r.divisions > 0 ? '+' : ''}
-                {r.divisions} div → {formatSlope(r.slopeUrad, unitSystem)}
-              </span>
-            </li>
-          ))}
-          {recent.length === 0 && <li className="text-ink-soft">No readings yet.</li>}
-        </ol>
-      </section>
+      <NotesPanel sessionId={sessionId} notes={state.notes} pending={pendingNotes(outbox)} participants={state.participants} disabled={ended} onPost={async (body) => void (await send('note:post', body))} />
+      <PhotoPanel sessionId={sessionId} stage={stage} photos={state.photos} online={link === 'live'} disabled={ended} />
+
+      <output hidden data-testid="seen-seqs">
+        {seen.current.join(',')}
+      </output>
     </main>
   );
 }

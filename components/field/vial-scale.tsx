@@ -10,7 +10,7 @@ const H = 120;
 const PAD = 30;
 const step = (W - 2 * PAD) / (2 * RANGE);
 
-export function VialScale({ value, onChange }: { value: number | null; onChange: (divisions: number) => void }) {
+export function VialScale({ value, onChange, label = 'Bubble position in divisions' }: { value: number | null; onChange: (divisions: number) => void; label?: string }) {
   const toX = (div: number) => W / 2 + Math.max(-RANGE, Math.min(RANGE, div)) * step;
   function pick(clientX: number, rect: DOMRect) {
     const x = ((clientX - rect.left) / rect.width) * W;
@@ -21,7 +21,7 @@ export function VialScale({ value, onChange }: { value: number | null; onChange:
     <svg
       viewBox={`0 0 ${W} ${H}`}
       role="slider"
-      aria-label="Bubble position in divisions"
+      aria-label={label}
       aria-valuemin={-RANGE}
       aria-valuemax={RANGE}
       aria-valuenow={value ?? 0}

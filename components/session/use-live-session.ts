@@ -61,6 +61,9 @@ export function useLiveSession(sessionId: string) {
       }
     },
     staleTime: Infinity,
+    // Run even when the browser says it is offline: the query function falls back to the log cached in IndexedDB
+    // (React Query's default 'online' mode would pause it, leaving an empty log after an offline reload).
+    networkMode: 'always',
     retry: (count, e) => count < 2 && e instanceof TypeError,
   });
   const [link, setLink] = useState<Link>('connecting');

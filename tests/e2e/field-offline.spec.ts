@@ -1,0 +1,101 @@
+import { expect, test, type Page } from '@playwright/test';
+import { DEMO_MACHINE_SERIAL } from '../../db/seed';
+import type { SessionEvent } from '../../lib/session/events';
+import { FieldPage } from './pages/field-page';
+import { signedIn } from './pages/personas';
+
+/** The ids of the commands waiting in the field view's IndexedDB outbox, oldest first. */
+async function outboxIds(page: Page): Promise<string[]> {
+  return page.evaluate(
+    () =>
+      new Promise<string[]>((resolve, reject) => {
+        const open = indexedDB.open('levelwire');
+        open.onerror = () => reject(open.error);
+        open.onsuccess = () => {
+          const all = open.result.transaction('outbox').objectStore('outbox').getAll();
+          all.onerror = () => reject(all.error);
+          all.onsuccess = () => resolve((all.result as { id: string; queuedAt: number }[]).sort((a, b) => a.queuedAt - b.queuedAt).map((c) => c.id));
+        };
+      }),
+  );
+}
+
+/**
+ * Issue 5, offline: the field view keeps readings typed without a network, survives a reload without a network
+ * (its service worker serves the page and scripts), and sends them in order once the link is back; the server
+ * stores each exactly once.
+ */
+test('readings typed offline survive a reload and are stored once each, in entry order', async ({ browser }) => {
+  const tech = await signedIn(browser, 'technician', { width: 390, height: 844 });
+  const expert = await signedIn(browser, 'expert');
+  const me = async (page: Page) => ((await (await page.request.get('/api/me')).json()) as { me: { id: string } }).me.id;
+  const { rows } = (await (await tech.page.request.get(`/api/machines?q=${DEMO_MACHINE_SERIAL}`)).json()) as { rows: { id: string; serial: string }[] };
+  const machine = rows.find((m) => m.serial === DEMO_MACHINE_SERIAL);
+  expect(machine, 'the demo fleet has the walkthrough machine').toBeTruthy();
+  const opened = await tech.page.request.post('/api/sessions', { data: { machineId: machine!.id, experts: [await me(expert.page)] } });
+  expect(opened.status()).toBe(201);
+  const sessionId = ((await opened.json()) as { session: { id: string } }).session.id;
+  await expert.context.close();
+
+  const field = new FieldPage(tech.page);
+  await field.open(sessionId);
+  await expect(field.linkState('live')).toBeVisible();
+  // The service worker controls the page once it has claimed it (first visit; the page cached itself).
+  await tech.page.waitForFunction(() => navigator.serviceWorker.controller !== null, undefined, { timeout: 20_000 });
+
+  // Walk to the twist stage, which asks for three level readings across (X) at the front, middle and back.
+  for (const stage of ['height-check', 'zero-level', 'rough-level', 'twist']) {
+    await field.nextStage();
+    await expect(field.stagePanel).toHaveAttribute('data-stage', stage);
+  }
+  await expect(field.outboxCount).toHaveText('0');
+
+  await tech.context.setOffline(true);
+  await expect(field.linkState('offline')).toBeVisible();
+
+  const typed = [
+    { key: 'level:x:-250', divisions: '1.5' },
+    { key: 'level:x:0', divisions: '-0.5' },
+    { key: 'level:x:250', divisions: '2' },
+  ];
+  for (const [i, r] of typed.entries()) {
+    await field.selectPlanned(r.key);
+    await tech.page.locator('input[name="divisions"]').fill(r.divisions);
+    await tech.page.getByRole('button', { name: 'Record reading' }).click();
+    await expect(field.outboxCount).toHaveText(String(i + 1));
+    await expect(field.stagePanel.locator(`[data-testid="planned-reading"][data-key="${r.key}"]`)).toHaveAttribute('data-pending', 'true');
+  }
+  await expect(field.outboxCount).toHaveText('3');
+  await expect(tech.page.getByTestId('reading-pending')).toHaveCount(3);
+  const queuedIds = await outboxIds(tech.page);
+  expect(queuedIds).toHaveLength(3);
+  // Nothing reached the server while offline (the test's own request context is not cut off).
+  const whileOffline = (await (await tech.page.request.get(`/api/sessions/${sessionId}/events`)).json()) as { events: SessionEvent[] };
+  expect(whileOffline.events.filter((e) => e.type === 'reading:recorded')).toHaveLength(0);
+
+  // A reload with no network: the service worker serves the page and its scripts, the outbox is still there.
+  const reloaded = await tech.page.reload();
+  expect(reloaded?.fromServiceWorker(), 'the page came from the service worker').toBe(true);
+  await expect(field.stagePanel).toHaveAttribute('data-stage', 'twist');
+  await expect(field.linkState('offline')).toBeVisible();
+  await expect(field.outboxCount).toHaveText('3');
+  await expect(tech.page.getByTestId('reading-pending')).toHaveCount(3);
+
+  await tech.context.setOffline(false);
+  await expect(field.linkState('live')).toBeVisible({ timeout: 20_000 });
+  await expect(field.outboxCount).toHaveText('0', { timeout: 20_000 });
+  await expect(field.stagePanel.locator('[data-testid="planned-reading"][data-taken="true"]')).toHaveCount(3);
+
+  const { events } = (await (await tech.page.request.get(`/api/sessions/${sessionId}/events`)).json()) as { events: SessionEvent[] };
+  const readings = events.filter((e): e is SessionEvent<'reading:recorded'> => e.type === 'reading:recorded');
+  // By value: each typed reading once, in the order typed.
+  expect(readings.map((e) => (e.payload.kind === 'level' ? e.payload.divisions : null))).toEqual(typed.map((r) => Number(r.divisions)));
+  expect(readings.map((e) => e.payload.stage)).toEqual(['twist', 'twist', 'twist']);
+  // By id: the outbox's ids, each stored once, in the order they were queued.
+  expect(readings.map((e) => e.id)).toEqual(queuedIds);
+  expect(new Set(events.map((e) => e.id)).size).toBe(events.length);
+  // Seqs strictly increasing with no gaps: nothing stored twice or lost between them.
+  expect(events.map((e) => e.seq)).toEqual(events.map((_, i) => i + 1));
+
+  await tech.context.close();
+});
