@@ -1,73 +1,210 @@
 'use client';
 
-import { useState } from 'react';
-import { formatPosition } from '@/lib/display-units';
+import { useMemo, useState } from 'react';
+import { DEFAULT_SWEEP_DIAMETER_MM, type BaseModel, type ScrewMove } from '@/lib/leveling';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
-import { LinkBadge } from '@/components/session/link-badge';
-import { useLiveSession } from '@/components/session/use-live-session';
-import { TiltView } from '@/components/viewer/tilt-view';
-import type { SceneScrew } from '@/components/viewer/canvas/base-scene';
+import { adjustStageOf, baseModelOf, pendingMoves, recommendedMoves, stageVerdict, tolerancesOf } from '@/lib/session/derive';
+import type { SessionScrew } from '@/lib/session/events';
+import type { SessionState } from '@/lib/session/fold';
+import { sessionSeries } from '@/lib/session/series';
+import { STAGE_GUIDES } from '@/lib/session/stages';
+import { useLiveSession, type Link } from '@/components/session/use-live-session';
+import type { SceneMove } from '@/components/viewer/tilt-view';
+import { BaseNumbers } from './base-numbers';
+import { EndSession } from './end-session';
+import { clock, type Standing } from './format';
+import { LiveChart } from './live-chart';
+import { ManualMove, RecommendedMoves, type SendMove } from './move-panel';
+import { MovesList } from './moves-list';
+import { NotesPanel } from './notes-panel';
+import { PhotosPanel } from './photos-panel';
+import { PresencePanel } from './presence-panel';
+import { ReadingFeed } from './reading-feed';
+import { CoachCautions, StagePanel } from './stage-panel';
+import { TiltPanel } from './tilt-panel';
 
-type Props = { sessionId: string; screws: SceneScrew[]; unitSystem: UnitSystem; machineLabel: string; technicianName: string };
+type Props = {
+  sessionId: string;
+  standing: Standing;
+  selfId: string;
+  unitSystem: UnitSystem;
+  machineLabel: string;
+  technicianName: string;
+  /** The machine's footprint now, for sessions whose log does not carry one. */
+  fallbackScrews: SessionScrew[];
+  table: { lengthMm: number; widthMm: number };
+  travelMm: number;
+};
 
-/** The expert's screen: the live tilt view and the readings as they arrive. */
-export function CoachView({ sessionId, screws, unitSystem, machineLabel, technicianName }: Props) {
-  const { state, link } = useLiveSession(sessionId);
-  const [exaggeration, setExaggeration] = useState(2000);
-  const levels = state.readings.flatMap((r) => (r.kind === 'level' ? [r] : []));
-  const last = levels.at(-1);
-  // Readings are taken on the table's centre line, at a station along Y.
-  const levelAt = last ? { xMm: 0, yMm: last.positionMm, axis: last.axis } : null;
+const LINK_LOOK: Record<Link, { text: string; cls: string }> = {
+  connecting: { text: 'Connecting…', cls: 'bg-rule text-ink' },
+  live: { text: 'Live', cls: 'bg-pass text-white' },
+  offline: { text: 'Offline', cls: 'bg-fail text-white' },
+};
+
+const STANDING_NOTE: Record<Standing, string | null> = {
+  expert: null,
+  technician: 'You are this session’s technician: moves are answered in the field view.',
+  observer: 'You are observing: you may post notes; moves are sent by the expert.',
+  reader: 'You are reading this session: nothing here is sent.',
+};
+
+/** The engine can refuse a model it cannot fit (e.g. contradictory readings); the view then shows none rather than failing. */
+function safely<T>(f: () => T, fallback: T): T {
+  try {
+    return f();
+  } catch {
+    return fallback;
+  }
+}
+
+/** Why the engine recommends nothing now, in words. */
+function noMovesReason(state: SessionState, model: BaseModel | null, verdict: ReturnType<typeof stageVerdict>): string {
+  const title = STAGE_GUIDES[state.stage].title;
+  if (state.ended) return 'The session has ended.';
+  if (!adjustStageOf(state.stage)) return `No screws are turned in the ${title.toLowerCase()} stage.`;
+  const pending = pendingMoves(state).length;
+  if (pending > 0) return `Waiting for the technician to answer ${pending} move${pending === 1 ? '' : 's'}.`;
+  if (!model) return 'Waiting for the first level readings.';
+  if (verdict.status === 'incomplete') return `Waiting for this round’s readings (${verdict.detail.length} to take).`;
+  if (verdict.status === 'pass') return `${title} is within tolerance: no moves needed.`;
+  return 'The engine found no move that helps; write one if needed.';
+}
+
+/** The expert's screen: the tilt view, the engine's moves, the measures by round, the stage, presence and notes. */
+export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabel, technicianName, fallbackScrews, table, travelMm }: Props) {
+  const { events, state, link, presence, outbox, rejected, dismissRejected, send, seen } = useLiveSession(sessionId);
+  const [sending, setSending] = useState(false);
+  const screws = state.screws.length > 0 ? state.screws : fallbackScrews;
+  const travel = state.travelMm ?? travelMm;
+  const model = useMemo(() => safely(() => baseModelOf(state), null), [state]);
+  const recommended = useMemo<ScrewMove[]>(() => safely(() => recommendedMoves(state, model), []), [state, model]);
+  const verdict = useMemo(() => stageVerdict(state, state.stage), [state]);
+  const series = useMemo(() => sessionSeries(state), [state]);
+  const tolerances = tolerancesOf(state);
+  const ended = state.ended !== null;
+  const canSendMoves = standing === 'expert' && !ended;
+  const canPost = standing !== 'reader' && !ended;
+  const canEnd = (standing === 'expert' || standing === 'technician') && !ended;
+  const moveBusy = sending || outbox.some((c) => c.name === 'move:send');
+
+  const sceneMoves = useMemo<SceneMove[]>(() => {
+    const byScrew = new Map<string, SceneMove>();
+    for (const m of state.moves) if (m.status === 'done' && m.stage === state.stage) byScrew.set(m.screwId, { screwId: m.screwId, turns: m.doneTurns ?? m.turns, status: 'done' });
+    for (const m of state.moves) if (m.status === 'pending') byScrew.set(m.screwId, { screwId: m.screwId, turns: m.turns, status: 'pending' });
+    return [...byScrew.values()];
+  }, [state.moves, state.stage]);
+  const lastLevel = state.readings.findLast((r) => r.kind === 'level');
+  const lastSweep = state.readings.findLast((r) => r.kind === 'sweep');
+  const sweepDiameterMm = lastSweep?.kind === 'sweep' ? lastSweep.diameterMm : DEFAULT_SWEEP_DIAMETER_MM;
+  const showSweep = state.stage === 'spindle-sweep' || lastSweep !== undefined;
+  const sweepLabel = `sweep circle ⌀${unitSystem === 'inch' ? `${(sweepDiameterMm / 25.4).toFixed(1)} in` : `${Math.round(sweepDiameterMm)} mm`}`;
+  const shape = model ? { tiltXUrad: model.state.tiltXUrad, tiltYUrad: model.state.tiltYUrad, twistUrad: model.state.twistUrad, bowUrad: model.state.bowUrad } : null;
+  const shapeKey = shape ? Object.values(shape).map((v) => v.toFixed(3)).join(',') : 'none';
+  // A stable object while the model's figures are unchanged (shapeKey stands for shape), so the canvas redraws only when the shape moves.
+  const stableShape = useMemo(() => shape, [shapeKey]);
+  const recKey = recommended.map((m) => `${m.id}:${m.turns.toFixed(4)}`).join('|') + `@${state.seq}`;
+
+  const sendMove: SendMove = async (m) => {
+    setSending(true);
+    try {
+      await send('move:send', { stage: state.stage, screwId: m.screwId, turns: m.turns, recommended: m.recommended, ...(m.note ? { note: m.note } : {}) });
+    } finally {
+      setSending(false);
+    }
+  };
+  const look = LINK_LOOK[link];
 
   return (
-    <main className="grid gap-4 p-4 lg:grid-cols-[minmax(0,1fr)_26rem]">
-      <section aria-labelledby="tilt-h" className="grid gap-3">
-        <div className="flex flex-wrap items-center justify-between gap-3">
-          <div>
-            <p className="text-sm font-semibold uppercase tracking-wide text-ink-soft">Coach view · technician {technicianName}</p>
-            <h1 id="tilt-h" className="text-2xl font-bold">{machineLabel}</h1>
-          </div>
-          <LinkBadge link={link} />
-        </div>
-        <div className="relative h-[60vh] min-h-80 overflow-hidden rounded-2xl border-2 border-ink bg-[#e9e6dc]">
-          <p className="pointer-events-none absolute left-3 top-2 z-10 rounded bg-paper/85 px-2 py-1 text-sm">
-            Heights ×{exaggeration.toLocaleString('en')} · black bar = front (operator side) · +X to the right · green block = the level · drag to turn
+    <main className="grid gap-4 p-4 xl:grid-cols-[minmax(0,1fr)_28rem] min-[1400px]:grid-cols-[minmax(0,1fr)_33rem]">
+      <output hidden data-testid="seen-seqs">
+        {seen.current.join(',')}
+      </output>
+      <header className="flex flex-wrap items-center justify-between gap-3 xl:col-span-2">
+        <div>
+          <p className="text-sm font-semibold uppercase tracking-wide text-ink-soft">
+            Coach view · technician {technicianName} · {events.length > 0 ? `log #${state.seq}` : 'loading the log'}
           </p>
-          <TiltView screws={screws} slopeXUrad={state.slopeXUrad ?? 0} slopeYUrad={state.slopeYUrad ?? 0} exaggeration={exaggeration} levelAt={levelAt} />
+          <h1 className="text-2xl font-bold">{state.machineLabel ?? machineLabel}</h1>
         </div>
-        <label className="flex flex-wrap items-center gap-3 font-semibold">
-          Exaggeration
-          <input type="range" min={100} max={10000} step={100} value={exaggeration} onChange={(e) => setExaggeration(Number(e.target.value))} className="w-64 accent-spirit" />
-          <span className="tabular">×{exaggeration.toLocaleString('en')}</span>
-        </label>
-      </section>
+        <div className="flex flex-wrap items-center gap-2">
+          {outbox.length > 0 && (
+            <span className="rounded-full bg-bubble px-3 py-1 font-semibold" data-testid="outbox-count">
+              {outbox.length} waiting to send
+            </span>
+          )}
+          <span role="status" data-testid="link-state" data-link={link} className={`rounded-full px-4 py-2 font-bold ${look.cls}`}>
+            {look.text}
+          </span>
+          {canEnd && <EndSession onEnd={async (reason) => void (await send('session:end', reason ? { reason } : {}))} />}
+        </div>
+        {STANDING_NOTE[standing] && <p className="w-full rounded-lg bg-steel/10 px-3 py-2 text-sm">{STANDING_NOTE[standing]}</p>}
+        {state.ended && (
+          <p className="w-full rounded-lg bg-ink px-3 py-2 font-semibold text-paper" role="status">
+            Session ended at {clock(state.ended.at)}
+            {state.ended.reason ? `: ${state.ended.reason}` : ''}.
+          </p>
+        )}
+        {rejected.map((r) => (
+          <p key={r.id} role="alert" className="flex w-full items-center justify-between gap-2 rounded-lg bg-fail/10 px-3 py-2 font-semibold text-fail">
+            <span>
+              Not stored ({r.name}): {r.error.message}
+            </span>
+            <button type="button" className="underline" onClick={() => dismissRejected(r.id)}>
+              Dismiss
+            </button>
+          </p>
+        ))}
+      </header>
 
-      <aside className="grid content-start gap-4">
-        <div className="grid grid-cols-2 gap-3">
-          {([
-            ['Slope X (across)', state.slopeXUrad],
-            ['Slope Y (along)', state.slopeYUrad],
-          ] as const).map(([label, v]) => (
-            <div key={label} className="rounded-xl bg-steel p-3 text-paper">
-              <p className="text-sm">{label}</p>
-              <p className="tabular whitespace-nowrap text-lg font-bold" data-testid={label.startsWith('Slope X') ? 'slope-x' : 'slope-y'}>
-                {v === null ? '—' : formatSlope(v, unitSystem)}
-              </p>
-            </div>
-          ))}
+      <div className="grid min-w-0 content-start gap-4">
+        <div className="grid gap-3 xl:grid-cols-[minmax(0,1fr)_12rem] 2xl:grid-cols-[minmax(0,1fr)_14rem]">
+          <TiltPanel
+            screws={screws}
+            table={table}
+            travelMm={travel}
+            shape={stableShape}
+            level={lastLevel?.kind === 'level' ? { axis: lastLevel.axis, positionMm: lastLevel.positionMm } : null}
+            sweep={showSweep ? { diameterMm: sweepDiameterMm, label: sweepLabel } : null}
+            moves={sceneMoves}
+            unitSystem={unitSystem}
+          />
+          <BaseNumbers model={model} tolerances={tolerances} unitSystem={unitSystem} />
         </div>
-        <section aria-labelledby="feed-h" className="rounded-2xl border-2 border-rule bg-card p-3">
-          <h2 id="feed-h" className="text-lg font-bold">Readings, live</h2>
-          <ol className="mt-2 grid max-h-[50vh] gap-1 overflow-auto" data-testid="reading-feed">
-            {[...levels].reverse().map((r) => (
-              <li key={r.seq} className="flex justify-between gap-2 rounded-lg bg-paper px-3 py-2 tabular">
-                <span>#{r.seq} {r.axis.toUpperCase()} @ {formatPosition(r.positionMm, unitSystem)}</span>
-                <span>{r.divisions > 0 ? '+' : ''}{r.divisions} div</span>
-              </li>
-            ))}
-            {levels.length === 0 && <li className="text-ink-soft">Waiting for the technician’s first reading.</li>}
-          </ol>
-        </section>
+        <LiveChart series={series} unitSystem={unitSystem} />
+        <div className="grid gap-4 lg:grid-cols-2">
+          <div className="grid content-start gap-2">
+            <p className="flex flex-wrap gap-x-4 text-sm">
+              <span>
+                Latest X reading: <b className="tabular" data-testid="slope-x">{state.slopeXUrad === null ? '—' : formatSlope(state.slopeXUrad, unitSystem)}</b>
+              </span>
+              <span>
+                Latest Y reading: <b className="tabular" data-testid="slope-y">{state.slopeYUrad === null ? '—' : formatSlope(state.slopeYUrad, unitSystem)}</b>
+              </span>
+            </p>
+            <ReadingFeed readings={state.readings} screws={screws} unitSystem={unitSystem} />
+          </div>
+          <PhotosPanel sessionId={sessionId} photos={state.photos} />
+        </div>
+      </div>
+
+      <aside className="grid min-w-0 content-start gap-3" aria-label="Coaching">
+        <StagePanel state={state} verdict={verdict} />
+        <RecommendedMoves
+          key={recKey}
+          moves={recommended}
+          screws={screws}
+          unitSystem={unitSystem}
+          emptyReason={noMovesReason(state, model, verdict)}
+          canSend={canSendMoves}
+          busy={moveBusy}
+          onSend={sendMove}
+        />
+        {canSendMoves && <ManualMove screws={screws} unitSystem={unitSystem} busy={moveBusy} onSend={sendMove} />}
+        <MovesList moves={state.moves} screws={screws} unitSystem={unitSystem} />
+        <PresencePanel presence={presence} participants={state.participants} selfId={selfId} />
+        <NotesPanel notes={state.notes} participants={state.participants} selfId={selfId} canPost={canPost} onPost={async (text) => void (await send('note:post', { text }))} />
+        <CoachCautions stageCautions={STAGE_GUIDES[state.stage].cautions} />
       </aside>
     </main>
   );

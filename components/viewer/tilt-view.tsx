@@ -4,6 +4,8 @@ import dynamic from 'next/dynamic';
 import { Component, type ReactNode } from 'react';
 import type { SceneProps } from './canvas/base-scene';
 
+export type { SceneMove, SceneProps, SceneScrew } from './canvas/base-scene';
+
 /** three.js loads only where the tilt view is drawn, and only in the browser. */
 const BaseScene = dynamic(() => import('./canvas/base-scene').then((m) => m.BaseScene), {
   ssr: false,

@@ -9,14 +9,27 @@ export default async function CoachPage({ params }: { params: Promise<{ id: stri
   const { id } = await params;
   const actor = await requirePageActor(`/sessions/${id}/coach`);
   const session = await loadSessionForPage(actor, id);
-  const screws = session.machine.screws.map(({ id: screwId, label, xMm, yMm }) => ({ id: screwId, label, xMm, yMm }));
+  const { machine } = session;
+  const fallbackScrews = machine.screws.map((s) => ({
+    id: s.id,
+    label: s.label,
+    kind: s.kind,
+    xMm: s.xMm,
+    yMm: s.yMm,
+    liftPerTurnMm: s.liftPerTurnMm ?? s.pitchMm,
+    specifiedHeightMm: s.specHeightMm,
+  }));
   return (
     <CoachView
       sessionId={session.id}
-      screws={screws}
+      standing={session.standing}
+      selfId={actor.id}
       unitSystem={actor.unitSystem}
-      machineLabel={session.machine.model}
+      machineLabel={`${machine.model} · ${machine.serial}`}
       technicianName={session.technician.name}
+      fallbackScrews={fallbackScrews}
+      table={{ lengthMm: machine.tableLengthMm, widthMm: machine.tableWidthMm }}
+      travelMm={machine.travelYMm}
     />
   );
 }

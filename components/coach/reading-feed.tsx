@@ -1,0 +1,46 @@
+import { formatPosition } from '@/lib/display-units';
+import { convertLength, formatLength, type UnitSystem } from '@/lib/leveling/units';
+import type { RecordedReading } from '@/lib/session/fold';
+import type { SessionScrew } from '@/lib/session/events';
+import { STAGE_GUIDES } from '@/lib/session/stages';
+
+const div = (d: number) => `${d > 0 ? '+' : ''}${d} div`;
+
+function describe(r: RecordedReading, screws: SessionScrew[], system: UnitSystem): [string, string] {
+  switch (r.kind) {
+    case 'level':
+      return [`#${r.seq} ${r.axis.toUpperCase()} @ ${formatPosition(r.positionMm, system)}`, div(r.divisions)];
+    case 'reversal':
+      return [`#${r.seq} Reversal ${r.axis.toUpperCase()} ${div(r.firstDiv)} / ${div(r.secondDiv)}`, `zero error ${r.zeroErrorDiv.toFixed(2)} div${r.repeats ? '' : ' ✗'}`];
+    case 'height': {
+      const label = screws.find((s) => s.id === r.screwId)?.label ?? 'screw';
+      const h = system === 'inch' ? `${convertLength(r.heightMm, 'mm', 'in').toFixed(3)} in` : `${r.heightMm.toFixed(2)} mm`;
+      return [`#${r.seq} Height at ${label}`, h];
+    }
+    case 'sweep':
+      return [`#${r.seq} Sweep`, `F ${formatLength(r.frontUm, system)} B ${formatLength(r.backUm, system)} L ${formatLength(r.leftUm, system)} R ${formatLength(r.rightUm, system)}`];
+  }
+}
+
+/** The readings as the technician records them, newest first. */
+export function ReadingFeed({ readings, screws, unitSystem }: { readings: RecordedReading[]; screws: SessionScrew[]; unitSystem: UnitSystem }) {
+  return (
+    <section aria-labelledby="feed-h" className="grid content-start gap-2 rounded-2xl border-2 border-rule bg-card p-3 text-sm">
+      <h2 id="feed-h" className="text-lg font-bold">
+        Readings, live
+      </h2>
+      <ol className="grid max-h-72 gap-1 overflow-auto" data-testid="reading-feed">
+        {[...readings].reverse().map((r) => {
+          const [what, value] = describe(r, screws, unitSystem);
+          return (
+            <li key={r.seq} className="flex justify-between gap-2 rounded-lg bg-paper px-3 py-1.5 tabular" title={STAGE_GUIDES[r.stage].title}>
+              <span>{what}</span>
+              <span className="text-right">{value}</span>
+            </li>
+          );
+        })}
+        {readings.length === 0 && <li className="text-ink-soft">Waiting for the technician’s first reading.</li>}
+      </ol>
+    </section>
+  );
+}
