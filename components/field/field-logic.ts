@@ -85,6 +85,11 @@ export function indicatorToUm(value: number, system: UnitSystem): number {
   return system === 'inch' ? convertLength(value, 'in', 'um') : value;
 }
 
+/** An indicator value (µm) as the technician reads it: inches to 0.00001 in, or µm to 0.1. */
+export function formatIndicator(um: number, system: UnitSystem): string {
+  return system === 'inch' ? `${convertLength(um, 'um', 'in').toFixed(5)} in` : `${um.toFixed(1)} µm`;
+}
+
 /** The unit the field view asks heights and indicator values in. */
 export function entryUnits(system: UnitSystem): { height: string; indicator: string } {
   return system === 'inch' ? { height: 'in', indicator: 'in' } : { height: 'mm', indicator: 'µm' };

@@ -1,6 +1,6 @@
 'use client';
 
-import { useEffect, useMemo, useState } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import { formatPosition } from '@/lib/display-units';
 import type { UnitSystem } from '@/lib/leveling/units';
 import type { ReadingInput } from '@/lib/session/commands';
@@ -58,6 +58,13 @@ export function FieldView({ sessionId, unitSystem, machineLabel, tableMm }: Prop
   const answering = answeredInOutbox(outbox);
   const moves = state.moves.filter((m) => m.status === 'pending' && !answering.has(m.moveId));
   const checksQueued = pendingChecks(outbox);
+  const screwLabel = (id: string) => state.screws.find((s) => s.id === id)?.label ?? 'screw';
+  // A new move from the coach: bring it into view, whatever the technician was scrolled to.
+  const movesRef = useRef<HTMLElement>(null);
+  const newestMove = moves.at(-1)?.moveId ?? null;
+  useEffect(() => {
+    if (newestMove) movesRef.current?.scrollIntoView({ behavior: 'smooth', block: 'start' });
+  }, [newestMove]);
   const [localChecks, setLocalChecks] = useState<Record<string, { done: boolean; id: string }>>({});
   const checklist = stageChecklist(stage, state.screws);
   const ended = state.ended !== null;
@@ -116,18 +123,25 @@ export function FieldView({ sessionId, unitSystem, machineLabel, tableMm }: Prop
     return checksQueued.get(item) ?? state.checks[item] ?? false;
   };
 
-  const screwLabel = (id: string) => state.screws.find((s) => s.id === id)?.label ?? 'screw';
   const storedInStage = state.readings.filter((r) => r.stage === stage);
   const roundSeqs = new Set([...round.values()].map((r) => r.seq));
 
   return (
-    <main className="mx-auto grid max-w-3xl gap-4 p-3 pb-16 sm:p-4">
+    <main className="mx-auto grid max-w-3xl grid-cols-[minmax(0,1fr)] gap-4 p-3 pb-16 sm:p-4">
       <div className="sticky top-0 z-20 -mx-3 grid gap-2 border-b-2 border-rule bg-paper/95 px-3 py-2 backdrop-blur sm:-mx-4 sm:px-4">
-        <div className="flex flex-wrap items-baseline justify-between gap-x-3">
-          <h1 className="text-lg font-bold leading-tight">{machineLabel}</h1>
-          <p className="text-sm font-semibold uppercase tracking-wide text-ink-soft">Field view</p>
-        </div>
+        <h1 className="truncate text-base font-bold leading-tight">
+          <span className="sr-only">Field view: </span>
+          {machineLabel}
+        </h1>
         <LinkStrip link={link} pending={outbox.length} rejected={rejected} onDismiss={dismissRejected} />
+        {moves.length > 0 && (
+          <a href="#moves" className="flex min-h-12 items-center justify-between gap-2 rounded-lg bg-bubble px-3 font-bold text-ink">
+            <span>
+              {moves.length === 1 ? 'A move waits' : `${moves.length} moves wait`}: {moves.map((m) => `${m.raiseUm >= 0 ? '▲' : '▼'} ${screwLabel(m.screwId)}`).join(', ')}
+            </span>
+            <span aria-hidden>↓</span>
+          </a>
+        )}
       </div>
 
       {ended && (
@@ -137,16 +151,24 @@ export function FieldView({ sessionId, unitSystem, machineLabel, tableMm }: Prop
       )}
 
       {moves.length > 0 && (
-        <section aria-label="Moves to make" className="grid gap-3">
+        <section id="moves" ref={movesRef} aria-label="Moves to make" className="grid scroll-mt-48 gap-3">
           {moves.map((m) => (
-            <MoveCard key={m.moveId} move={m} screwLabel={screwLabel(m.screwId)} sessionId={sessionId} unitSystem={unitSystem} onAnswer={async (body) => void (await send('move:answer', body))} />
+            <MoveCard
+              key={m.moveId}
+              move={m}
+              screwLabel={screwLabel(m.screwId)}
+              sessionId={sessionId}
+              unitSystem={unitSystem}
+              onAnswer={async (body) => void (await send('move:answer', body))}
+              topView={<TopView compact screws={state.screws} tableMm={tableMm} travelYMm={state.travelMm} placement={null} movingScrewIds={new Set([m.screwId])} />}
+            />
           ))}
         </section>
       )}
 
       <StageStepper current={stage} verdicts={verdicts} onBack={enter} disabled={ended} />
 
-      <section data-testid="stage-panel" data-stage={stage} aria-labelledby="stage-h" className="grid gap-4 rounded-2xl border-2 border-ink bg-card p-3 sm:p-4">
+      <section data-testid="stage-panel" data-stage={stage} aria-labelledby="stage-h" className="grid grid-cols-[minmax(0,1fr)] gap-4 rounded-2xl border-2 border-ink bg-card p-3 sm:p-4">
         <div className="flex flex-wrap items-center justify-between gap-2">
           <h2 id="stage-h" className="text-2xl font-bold">
             <span className="tabular text-ink-soft">{SESSION_STAGES.indexOf(stage) + 1}/10</span> {guide.title}

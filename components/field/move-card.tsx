@@ -1,6 +1,6 @@
 'use client';
 
-import { useState, type FormEvent } from 'react';
+import { useState, type FormEvent, type ReactNode } from 'react';
 import { formatLength, type UnitSystem } from '@/lib/leveling/units';
 import { moveAnswer } from '@/lib/session/commands';
 import type { MoveState } from '@/lib/session/fold';
@@ -15,13 +15,15 @@ type Props = {
   unitSystem: UnitSystem;
   /** Queues the answer (a move:answer command body, with its id). */
   onAnswer: (body: Record<string, unknown>) => Promise<void>;
+  /** The top view with this screw highlighted. */
+  topView?: ReactNode;
 };
 
 /**
  * A move from the coach, at the top of the screen: which screw, raise or lower, by how many turns and degrees of
  * wrench swing. The technician answers Done (with what was actually turned) or Can't (with a reason).
  */
-export function MoveCard({ move, screwLabel, sessionId, unitSystem, onAnswer }: Props) {
+export function MoveCard({ move, screwLabel, sessionId, unitSystem, onAnswer, topView }: Props) {
   const words = moveWords(move);
   const [turns, setTurns] = useState(String(move.turns));
   const [reason, setReason] = useState('');
@@ -72,6 +74,7 @@ export function MoveCard({ move, screwLabel, sessionId, unitSystem, onAnswer }: 
       <p className="text-ink-soft">
         {raise ? 'Lifts' : 'Lowers'} the base at {screwLabel} by {formatLength(words.liftUm, unitSystem)}. Lift in small steps; hands clear of the pad.
       </p>
+      {topView}
       {move.note && <p className="rounded-lg bg-paper p-2 text-lg">“{move.note}”</p>}
       <form onSubmit={(e) => answer('done', e)} noValidate className="grid gap-2">
         <NumberField name="turns" label="Turns actually made (+ raised, − lowered)" value={turns} onChange={setTurns} unit="turns" invalid={problem?.field === 'turns'} signed />

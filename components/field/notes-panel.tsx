@@ -32,7 +32,7 @@ export function NotesPanel({ sessionId, notes, pending, participants, disabled, 
   }
 
   return (
-    <section aria-labelledby="notes-h" className="grid gap-3 rounded-2xl border-2 border-rule bg-card p-4">
+    <section aria-labelledby="notes-h" className="grid grid-cols-[minmax(0,1fr)] gap-3 rounded-2xl border-2 border-rule bg-card p-4">
       <h2 id="notes-h" className="text-xl font-bold">
         Notes
       </h2>

@@ -49,7 +49,7 @@ export function PhotoPanel({ sessionId, stage, photos, online, disabled }: Props
 
   const ordered = [...photos].sort((a, b) => Number(b.stage === stage) - Number(a.stage === stage) || b.seq - a.seq);
   return (
-    <section aria-labelledby="photos-h" className="grid gap-3 rounded-2xl border-2 border-rule bg-card p-4">
+    <section aria-labelledby="photos-h" className="grid grid-cols-[minmax(0,1fr)] gap-3 rounded-2xl border-2 border-rule bg-card p-4">
       <h2 id="photos-h" className="text-xl font-bold">
         Photos
       </h2>
@@ -57,7 +57,7 @@ export function PhotoPanel({ sessionId, stage, photos, online, disabled }: Props
       <form onSubmit={upload} noValidate className="grid gap-2">
         <label className="grid gap-1 font-semibold">
           Photo for {STAGE_GUIDES[stage].title}
-          <input ref={fileRef} type="file" name="file" accept="image/*" capture="environment" className="min-h-12 text-base file:mr-3 file:min-h-12 file:rounded-lg file:border-2 file:border-ink file:bg-card file:px-3 file:font-semibold" />
+          <input ref={fileRef} type="file" name="file" accept="image/*" capture="environment" className="min-h-12 w-full min-w-0 text-base file:mr-3 file:min-h-12 file:rounded-lg file:border-2 file:border-ink file:bg-card file:px-3 file:font-semibold" />
         </label>
         <label className="grid gap-1 font-semibold">
           Caption

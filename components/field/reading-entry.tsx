@@ -144,8 +144,8 @@ export function ReadingEntry({ target, stage, unitSystem, screws, onRecord }: Pr
           <p className="text-sm text-ink-soft">
             Indicator values in {unitSystem === 'inch' ? 'inches (0.0001 in is one tenth)' : 'µm'}; + = tip pushed in. Zero at the left point.
           </p>
-          <div className="grid grid-cols-2 gap-3">
-            {(['back', 'front', 'left', 'right'] as const).map((s) => (
+          <div className="grid gap-3 sm:grid-cols-2">
+            {(['left', 'front', 'right', 'back'] as const).map((s) => (
               <NumberField key={s} name={s} label={s[0]!.toUpperCase() + s.slice(1)} value={text(s)} onChange={set(s)} unit={units.indicator} invalid={invalid(s)} signed />
             ))}
           </div>

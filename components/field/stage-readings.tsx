@@ -3,7 +3,7 @@ import { analyzeSweep } from '@/lib/leveling';
 import { formatLength, formatSlope, type UnitSystem } from '@/lib/leveling/units';
 import { readingKey, tolerancesOf, type PlannedReading, type Verdict } from '@/lib/session/derive';
 import type { RecordedReading, SessionState } from '@/lib/session/fold';
-import { keyOfInput, type PendingReading } from './field-logic';
+import { formatIndicator, keyOfInput, type PendingReading } from './field-logic';
 
 type Props = {
   state: SessionState;
@@ -46,7 +46,7 @@ function valueOf(r: RecordedReading, state: SessionState, system: UnitSystem, sw
       return formatLength(r.heightMm * 1000, system);
     case 'sweep': {
       const a = analyzeSweep(r, sweepLimitUm);
-      return `F ${formatLength(r.frontUm, system)} · B ${formatLength(r.backUm, system)} · L ${formatLength(r.leftUm, system)} · R ${formatLength(r.rightUm, system)} → TIR ${formatLength(a.tirUm, system)}, tilt ${formatSlope(a.tiltUrad, system)}`;
+      return `L ${formatIndicator(r.leftUm, system)} · F ${formatIndicator(r.frontUm, system)} · R ${formatIndicator(r.rightUm, system)} · B ${formatIndicator(r.backUm, system)} → TIR ${formatIndicator(a.tirUm, system)}, tilt ${formatSlope(a.tiltUrad, system)}`;
     }
   }
 }
@@ -61,7 +61,7 @@ function pendingValueOf(r: PendingReading['reading'], state: SessionState, syste
     case 'height':
       return formatLength(r.heightMm * 1000, system);
     case 'sweep':
-      return `F ${formatLength(r.frontUm, system)} · B ${formatLength(r.backUm, system)} · L ${formatLength(r.leftUm, system)} · R ${formatLength(r.rightUm, system)}`;
+      return `L ${formatIndicator(r.leftUm, system)} · F ${formatIndicator(r.frontUm, system)} · R ${formatIndicator(r.rightUm, system)} · B ${formatIndicator(r.backUm, system)}`;
   }
 }
 

@@ -1,12 +1,13 @@
 'use client';
 
+import { useEffect, useRef } from 'react';
 import type { Verdict } from '@/lib/session/derive';
 import { SESSION_STAGES, STAGE_GUIDES, type SessionStage } from '@/lib/session/stages';
 
 const mark: Record<Verdict['status'], { sign: string; cls: string; word: string }> = {
   pass: { sign: '✓', cls: 'bg-pass text-white', word: 'passes' },
   fail: { sign: '✕', cls: 'bg-fail text-white', word: 'fails' },
-  incomplete: { sign: '…', cls: 'bg-rule text-ink', word: 'incomplete' },
+  incomplete: { sign: '○', cls: 'bg-rule text-ink', word: 'incomplete' },
 };
 
 type Props = { current: SessionStage; verdicts: Record<SessionStage, Verdict>; onBack: (stage: SessionStage) => void; disabled: boolean };
@@ -14,9 +15,13 @@ type Props = { current: SessionStage; verdicts: Record<SessionStage, Verdict>; o
 /** The stages in order with each one's verdict; an earlier stage can be entered again from here. */
 export function StageStepper({ current, verdicts, onBack, disabled }: Props) {
   const at = SESSION_STAGES.indexOf(current);
+  const list = useRef<HTMLOListElement>(null);
+  useEffect(() => {
+    list.current?.querySelector('[aria-current="step"]')?.scrollIntoView({ block: 'nearest', inline: 'center' });
+  }, [current]);
   return (
     <nav aria-label="Stages" className="-mx-1 overflow-x-auto pb-1">
-      <ol className="flex gap-1 px-1">
+      <ol ref={list} className="flex gap-1 px-1">
         {SESSION_STAGES.map((s, i) => {
           const v = mark[verdicts[s].status];
           const isCurrent = s === current;

@@ -1,7 +1,10 @@
+import { useId } from 'react';
 import type { SessionScrew } from '@/lib/session/events';
 import type { Placement } from './field-logic';
 
 type Props = {
+  /** Smaller, for the move card. */
+  compact?: boolean;
   screws: SessionScrew[];
   tableMm: { lengthMm: number; widthMm: number } | null;
   travelYMm: number | null;
@@ -18,34 +21,34 @@ const LEVEL_MM = 200;
  * (a bar with its marked end) or the indicator circle goes. Drawn with the back at the top and the operator's
  * side at the bottom; +x to the operator's right.
  */
-export function TopView({ screws, tableMm, travelYMm, placement, movingScrewIds }: Props) {
+export function TopView({ compact = false, screws, tableMm, travelYMm, placement, movingScrewIds }: Props) {
   const halfX = Math.max(300, ...screws.map((s) => Math.abs(s.xMm)), (tableMm?.lengthMm ?? 0) / 2);
   const halfY = Math.max(250, ...screws.map((s) => Math.abs(s.yMm)), (travelYMm ?? 0) / 2 + (tableMm?.widthMm ?? 0) / 2);
-  const pad = Math.max(halfX, halfY) * 0.16;
-  const w = 2 * (halfX + pad);
-  const h = 2 * (halfY + pad) + pad;
-  const u = Math.max(w, h) / 100; // one drawing unit: a hundredth of the larger side
+  const arrowId = `lw-arrow-${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
+  const u = Math.max(halfX, halfY) / 40; // one drawing unit: text, marks and margins scale with the machine
   const levelLen = Math.max(LEVEL_MM, halfX * 0.35);
   // SVG y grows downward; the back (+y) is drawn at the top.
   const Y = (yMm: number) => -yMm;
   const stationsY = travelYMm ? [-travelYMm / 2, 0, travelYMm / 2] : [];
+  const left = -(halfX + 11 * u);
+  const top = -(halfY + 17 * u);
 
   return (
     <figure className="grid gap-1">
       <svg
-        viewBox={`${-w / 2} ${-h / 2 - pad / 2} ${w} ${h}`}
+        viewBox={`${left} ${top} ${-2 * left} ${-2 * top}`}
         role="img"
         aria-label="Top view of the table: back at the top, operator's side at the bottom"
-        className="max-h-[46vh] w-full rounded-xl border-2 border-ink bg-card"
+        className={`w-full rounded-xl border-2 border-ink bg-card ${compact ? 'max-h-[28vh]' : 'max-h-[46vh]'}`}
       >
-        <text x={0} y={-h / 2 + pad * 0.1} textAnchor="middle" fontSize={4 * u} fontWeight={700} fill="var(--color-ink-soft)">
+        <text x={0} y={top + 6.5 * u} textAnchor="middle" fontSize={4.5 * u} fontWeight={700} fill="var(--color-ink-soft)">
           BACK
         </text>
-        <text x={0} y={h / 2 - pad * 0.9} textAnchor="middle" fontSize={4 * u} fontWeight={700} fill="var(--color-ink)">
-          FRONT · operator
+        <text x={0} y={-top - 3 * u} textAnchor="middle" fontSize={4.5 * u} fontWeight={700} fill="var(--color-ink)">
+          FRONT (operator)
         </text>
         {/* Base outline through the screws. */}
-        <rect x={-halfX - pad * 0.45} y={-halfY - pad * 0.45} width={2 * halfX + pad * 0.9} height={2 * halfY + pad * 0.9} rx={2 * u} fill="none" stroke="var(--color-rule)" strokeWidth={0.8 * u} />
+        <rect x={-halfX - 6 * u} y={-halfY - 6 * u} width={2 * halfX + 12 * u} height={2 * halfY + 12 * u} rx={2 * u} fill="none" stroke="var(--color-rule)" strokeWidth={0.8 * u} />
         {travelYMm !== null && (
           <line x1={0} x2={0} y1={Y(travelYMm / 2)} y2={Y(-travelYMm / 2)} stroke="var(--color-ink-soft)" strokeWidth={0.5 * u} strokeDasharray={`${2 * u} ${1.5 * u}`} />
         )}
@@ -55,15 +58,15 @@ export function TopView({ screws, tableMm, travelYMm, placement, movingScrewIds 
         {stationsY.map((y) => (
           <line key={y} x1={-3 * u} x2={3 * u} y1={Y(y)} y2={Y(y)} stroke="var(--color-ink-soft)" strokeWidth={0.6 * u} />
         ))}
-        {/* Axis arrows, bottom left. */}
-        <g transform={`translate(${-w / 2 + pad * 0.5} ${h / 2 - pad * 1.3})`} fontSize={3.4 * u} fill="var(--color-ink)">
-          <line x1={0} y1={0} x2={9 * u} y2={0} stroke="var(--color-ink)" strokeWidth={0.6 * u} markerEnd="url(#lw-arrow)" />
-          <line x1={0} y1={0} x2={0} y2={-9 * u} stroke="var(--color-ink)" strokeWidth={0.6 * u} markerEnd="url(#lw-arrow)" />
-          <text x={11 * u} y={1.2 * u}>+X</text>
-          <text x={-1.5 * u} y={-11 * u}>+Y</text>
+        {/* Axis arrows, in the bottom margin right of centre. */}
+        <g transform={`translate(${halfX * 0.6} ${-top - 4 * u})`} fontSize={3.6 * u} fill="var(--color-ink)">
+          <line x1={0} y1={0} x2={8 * u} y2={0} stroke="var(--color-ink)" strokeWidth={0.6 * u} markerEnd={`url(#${arrowId})`} />
+          <line x1={0} y1={0} x2={0} y2={-8 * u} stroke="var(--color-ink)" strokeWidth={0.6 * u} markerEnd={`url(#${arrowId})`} />
+          <text x={9.5 * u} y={1.3 * u}>+X</text>
+          <text x={1.5 * u} y={-7 * u}>+Y</text>
         </g>
         <defs>
-          <marker id="lw-arrow" viewBox="0 0 10 10" refX="8" refY="5" markerWidth="5" markerHeight="5" orient="auto-start-reverse">
+          <marker id={arrowId} viewBox="0 0 10 10" refX="8" refY="5" markerWidth="5" markerHeight="5" orient="auto-start-reverse">
             <path d="M0 0 L10 5 L0 10 z" fill="var(--color-ink)" />
           </marker>
         </defs>
@@ -115,14 +118,14 @@ export function TopView({ screws, tableMm, travelYMm, placement, movingScrewIds 
             <g key={s.id} data-screw={s.label} data-highlight={hot ? 'true' : 'false'}>
               {hot && <circle cx={s.xMm} cy={Y(s.yMm)} r={9 * u} fill="var(--color-bubble)" opacity={0.35} />}
               <circle cx={s.xMm} cy={Y(s.yMm)} r={4.2 * u} fill={hot ? 'var(--color-bubble)' : s.kind === 'middle' ? 'var(--color-card)' : 'var(--color-steel)'} stroke="var(--color-ink)" strokeWidth={0.8 * u} />
-              <text x={s.xMm} y={Y(s.yMm) + (s.yMm >= 0 ? -6.5 * u : 9.5 * u)} textAnchor="middle" fontSize={4.6 * u} fontWeight={700} fill="var(--color-ink)">
+              <text x={s.xMm + (s.xMm >= 0 ? -6 * u : 6 * u)} y={Y(s.yMm) + (s.yMm >= 0 ? 9.5 * u : -6 * u)} textAnchor={s.xMm >= 0 ? 'end' : 'start'} fontSize={4.6 * u} fontWeight={700} fill="var(--color-ink)">
                 {s.label}
               </text>
             </g>
           );
         })}
       </svg>
-      <figcaption className="text-sm text-ink-soft">
+      <figcaption className={compact ? 'sr-only' : 'text-sm text-ink-soft'}>
         Seen from above: back at the top, operator&apos;s side at the bottom, +X to the right. Green bar = the level, ▸ = its marked end; amber = the screw to turn or measure.
       </figcaption>
     </figure>
