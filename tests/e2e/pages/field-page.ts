@@ -23,7 +23,10 @@ export class FieldPage {
     // The machine count appears once the picker runs in the browser; typing before that could be lost.
     await this.page.getByText(/^(Showing \d+ of|\d+ machines?\.)/).waitFor();
     await this.page.getByLabel(/^Find a machine/).fill(DEMO_MACHINE_SERIAL);
-    await this.page.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL }).getByRole('button', { name: 'Start leveling' }).click();
+    const row = this.page.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL });
+    await row.getByRole('button', { name: /^Start leveling/ }).click();
+    // Opening asks who coaches; the walkthrough opens without choosing anyone.
+    await row.getByRole('button', { name: /^Open (with|without)/ }).click();
     await this.page.waitForURL(/\/sessions\/[0-9a-f-]{36}\/field$/);
     await expect(this.linkState('live')).toBeVisible();
     return this.page.url().split('/sessions/')[1]!.split('/')[0]!;
