@@ -1,12 +1,15 @@
 import { z } from 'zod';
 import { SESSION_STAGES } from './stages';
 
-const num = (label: string, min: number, max: number) =>
-  z
+/** A finite number within [min, max]; the error names the range (the field's name comes from the path). */
+const num = (_label: string, min: number, max: number) => {
+  const range = min === -max ? `within ±${max}` : `from ${min} to ${max}`;
+  return z
     .number({ error: 'must be a number' })
     .finite('must be a finite number')
-    .min(min, `${label} must be within ${min} to ${max}`)
-    .max(max, `${label} must be within ${min} to ${max}`);
+    .min(min, `must be ${range}`)
+    .max(max, `must be ${range}`);
+};
 
 const stage = z.enum(SESSION_STAGES, { error: `must be one of ${SESSION_STAGES.join(', ')}` });
 const axis = z.enum(['x', 'y'], { error: 'must be "x" or "y"' });
