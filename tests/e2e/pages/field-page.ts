@@ -25,8 +25,9 @@ export class FieldPage {
     await this.page.getByLabel(/^Find a machine/).fill(DEMO_MACHINE_SERIAL);
     const row = this.page.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL });
     await row.getByRole('button', { name: /^Start leveling/ }).click();
-    // Opening asks who coaches; the walkthrough opens without choosing anyone.
-    await row.getByRole('button', { name: /^Open (with|without)/ }).click();
+    // Opening asks who coaches: the walkthrough's expert (Ewan Marsh, expert@) coaches.
+    await row.getByLabel('Ewan Marsh').check();
+    await row.getByRole('button', { name: /^Open with/ }).click();
     await this.page.waitForURL(/\/sessions\/[0-9a-f-]{36}\/field$/);
     await expect(this.linkState('live')).toBeVisible();
     return this.page.url().split('/sessions/')[1]!.split('/')[0]!;
