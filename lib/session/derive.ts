@@ -236,6 +236,15 @@ export function baseModelOf(s: SessionState): BaseModel | null {
   return fitBaseModel(entries, { screwIds: screws.map((sc) => sc.id), response: nominalResponse(screws, s.travelMm), travelMm: s.travelMm });
 }
 
+/**
+ * When the as-left readings fail, the correction to make (jam nuts loosened first): twist on the corners if the
+ * twist came back, else bow and sweep on the middle screws.
+ */
+function asLeftCorrection(s: SessionState): AdjustStage {
+  const readings = [...currentRound(s, 'lock-as-left').values()].map(toEngineReading).filter((r): r is Reading => r !== null);
+  return stageWithinTolerance('twist', readings, tolerancesOf(s)) ? 'spindle-sweep' : 'twist';
+}
+
 /** Pending moves (sent, not yet answered). */
 export function pendingMoves(s: SessionState) {
   return s.moves.filter((m) => m.status === 'pending');
@@ -246,7 +255,7 @@ export function pendingMoves(s: SessionState) {
  * incomplete or already passes, or in stages where no screw is turned.
  */
 export function recommendedMoves(s: SessionState, model: BaseModel | null = baseModelOf(s)): ScrewMove[] {
-  const adjust = adjustStageOf(s.stage);
+  const adjust = adjustStageOf(s.stage) ?? (s.stage === 'lock-as-left' ? asLeftCorrection(s) : null);
   if (!adjust || !model || s.travelMm === null || pendingMoves(s).length > 0) return [];
   if (stageVerdict(s, s.stage).status !== 'fail') return [];
   const screws = engineScrews(s.screws);

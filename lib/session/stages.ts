@@ -146,7 +146,10 @@ export const STAGE_GUIDES: Record<SessionStage, StageGuide> = {
       'Record the figures; they go in the report.',
     ],
     placement: 'As in twist, bow and sweep.',
-    cautions: ['Hold the screw while tightening its jam nut, or the level you just reached moves.'],
+    cautions: [
+      'Hold the screw while tightening its jam nut, or the level you just reached moves.',
+      'If an as-left reading fails and a move is sent, loosen that screw’s jam nut first, turn, then lock it again.',
+    ],
   },
 };
 
