@@ -1,9 +1,9 @@
 'use client';
 
-import { useMemo, useState } from 'react';
-import { DEFAULT_SWEEP_DIAMETER_MM, type BaseModel, type ScrewMove } from '@/lib/leveling';
+import { useMemo, useRef, useState } from 'react';
+import { DEFAULT_SWEEP_DIAMETER_MM, stageScrews, type BaseModel, type ScrewMove } from '@/lib/leveling';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
-import { adjustStageOf, baseModelOf, pendingMoves, recommendedMoves, stageVerdict, tolerancesOf } from '@/lib/session/derive';
+import { adjustStageOf, baseModelOf, engineScrews, pendingMoves, recommendedMoves, stageVerdict, tolerancesOf } from '@/lib/session/derive';
 import type { SessionScrew } from '@/lib/session/events';
 import type { SessionState } from '@/lib/session/fold';
 import { sessionSeries } from '@/lib/session/series';
@@ -59,16 +59,18 @@ function safely<T>(f: () => T, fallback: T): T {
 }
 
 /** Why the engine recommends nothing now, in words. */
-function noMovesReason(state: SessionState, model: BaseModel | null, verdict: ReturnType<typeof stageVerdict>): string {
+function noMovesReason(state: SessionState, model: BaseModel | null, verdict: ReturnType<typeof stageVerdict>, canSend: boolean): string {
   const title = STAGE_GUIDES[state.stage].title;
   if (state.ended) return 'The session has ended.';
-  if (!adjustStageOf(state.stage)) return `No screws are turned in the ${title.toLowerCase()} stage.`;
+  const adjust = adjustStageOf(state.stage);
+  if (!adjust) return `No screws are turned in the ${title.toLowerCase()} stage.`;
+  if (stageScrews(adjust, engineScrews(state.screws)).length === 0) return `${title} is corrected on the middle screws, and this footprint has none${canSend ? ': advise by note or write a move' : ''}.`;
   const pending = pendingMoves(state).length;
   if (pending > 0) return `Waiting for the technician to answer ${pending} move${pending === 1 ? '' : 's'}.`;
   if (!model) return 'Waiting for the first level readings.';
   if (verdict.status === 'incomplete') return `Waiting for this round’s readings (${verdict.detail.length} to take).`;
   if (verdict.status === 'pass') return `${title} is within tolerance: no moves needed.`;
-  return 'The engine found no move that helps; write one if needed.';
+  return `The engine found no move that helps${canSend ? '; write one if needed' : ''}.`;
 }
 
 /** The expert's screen: the tilt view, the engine's moves, the measures by round, the stage, presence and notes. */
@@ -105,10 +107,22 @@ export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabe
   const stableShape = useMemo(() => shape, [shapeKey]);
   const recKey = recommended.map((m) => `${m.id}:${m.turns.toFixed(4)}`).join('|') + `@${state.seq}`;
 
+  const outboxRef = useRef(outbox);
+  outboxRef.current = outbox;
+  const linkRef = useRef(link);
+  linkRef.current = link;
+  const eventsRef = useRef(events);
+  eventsRef.current = events;
   const sendMove: SendMove = async (m) => {
     setSending(true);
     try {
-      await send('move:send', { stage: state.stage, screwId: m.screwId, turns: m.turns, recommended: m.recommended, ...(m.note ? { note: m.note } : {}) });
+      const id = await send('move:send', { stage: state.stage, screwId: m.screwId, turns: m.turns, recommended: m.recommended, ...(m.note ? { note: m.note } : {}) });
+      // While live, let each move be acknowledged before the next is queued: a command queued while the outbox is
+      // being sent otherwise waits for the hook's next retry (up to 8 s), and "Send all" would trickle in.
+      const delivered = () => eventsRef.current.some((e) => e.id === id) && !outboxRef.current.some((c) => c.id === id);
+      for (let waited = 0; linkRef.current === 'live' && waited < 4000 && !delivered(); waited += 50) {
+        await new Promise((r) => setTimeout(r, 50));
+      }
     } finally {
       setSending(false);
     }
@@ -195,7 +209,7 @@ export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabe
           moves={recommended}
           screws={screws}
           unitSystem={unitSystem}
-          emptyReason={noMovesReason(state, model, verdict)}
+          emptyReason={noMovesReason(state, model, verdict, canSendMoves)}
           canSend={canSendMoves}
           busy={moveBusy}
           onSend={sendMove}

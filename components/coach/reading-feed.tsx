@@ -18,7 +18,7 @@ function describe(r: RecordedReading, screws: SessionScrew[], system: UnitSystem
       return [`#${r.seq} Height at ${label}`, h];
     }
     case 'sweep':
-      return [`#${r.seq} Sweep`, `F ${formatLength(r.frontUm, system)} B ${formatLength(r.backUm, system)} L ${formatLength(r.leftUm, system)} R ${formatLength(r.rightUm, system)}`];
+      return [`#${r.seq} Sweep`, `front ${formatLength(r.frontUm, system)} · back ${formatLength(r.backUm, system)} · left ${formatLength(r.leftUm, system)} · right ${formatLength(r.rightUm, system)}`];
   }
 }
 
@@ -33,7 +33,7 @@ export function ReadingFeed({ readings, screws, unitSystem }: { readings: Record
         {[...readings].reverse().map((r) => {
           const [what, value] = describe(r, screws, unitSystem);
           return (
-            <li key={r.seq} className="flex justify-between gap-2 rounded-lg bg-paper px-3 py-1.5 tabular" title={STAGE_GUIDES[r.stage].title}>
+            <li key={r.seq} className="flex flex-wrap justify-between gap-x-2 rounded-lg bg-paper px-3 py-1.5 tabular" title={STAGE_GUIDES[r.stage].title}>
               <span>{what}</span>
               <span className="text-right">{value}</span>
             </li>

@@ -169,6 +169,33 @@ function Label({ text, position, heightM = 0.07, style, align = 'centre' }: { te
   return <primitive object={sprite} position={position} />;
 }
 
+/** A band on the surface along a circle about the table centre (a line would be one pixel wide in WebGL). */
+function SurfaceRing({ frame, radiusMm, widthMm, color }: { frame: Frame; radiusMm: number; widthMm: number; color: string }) {
+  const geometry = useMemo(() => {
+    const n = 96;
+    const pos: number[] = [];
+    const idx: number[] = [];
+    for (let i = 0; i <= n; i++) {
+      const a = (i / n) * 2 * Math.PI;
+      for (const r of [radiusMm - widthMm / 2, radiusMm + widthMm / 2]) {
+        const v = at(frame, r * Math.cos(a), r * Math.sin(a), 0.004);
+        pos.push(v.x, v.y, v.z);
+      }
+      if (i < n) idx.push(2 * i, 2 * i + 1, 2 * i + 2, 2 * i + 1, 2 * i + 3, 2 * i + 2);
+    }
+    const g = new BufferGeometry();
+    g.setAttribute('position', new Float32BufferAttribute(pos, 3));
+    g.setIndex(idx);
+    return g;
+  }, [frame, radiusMm, widthMm]);
+  useEffect(() => () => geometry.dispose(), [geometry]);
+  return (
+    <mesh geometry={geometry}>
+      <meshBasicMaterial color={color} side={2} />
+    </mesh>
+  );
+}
+
 /** A rectangle on the surface (follows its shape), mm half-sizes. */
 function surfaceRect(frame: Frame, hx: number, hy: number, liftM: number): Vector3[] {
   const n = 24;
@@ -216,7 +243,7 @@ function ScrewPost({ screw, frame, move }: { screw: SceneScrew; frame: Frame; mo
           <meshStandardMaterial color="#f2a516" emissive="#7a4f00" />
         </mesh>
       )}
-      <Label text={text} position={new Vector3(surface.x, surface.y + (move?.status === 'pending' ? 0.3 : 0.13), surface.z)} heightM={move ? 0.12 : 0.1} style={style} align={move ? (screw.xMm < 0 ? 'right' : 'left') : 'centre'} />
+      <Label text={text} position={new Vector3(surface.x, surface.y + (move?.status === 'pending' ? 0.3 : 0.15), surface.z)} heightM={move ? 0.12 : 0.12} style={style} align={move ? (screw.xMm < 0 ? 'right' : 'left') : 'centre'} />
     </group>
   );
 }
@@ -242,11 +269,6 @@ export function BaseScene(p: SceneProps) {
       ].map(([x, y]) => [new Vector3(x! * MM, 0, -y! * MM), at(frame, x!, y!)]),
     [frame, halfX, halfY],
   );
-  const sweepRing = useMemo(() => {
-    if (!p.sweep) return null;
-    const r = p.sweep.diameterMm / 2;
-    return Array.from({ length: 72 }, (_, i) => at(frame, r * Math.cos((i / 72) * 2 * Math.PI), r * Math.sin((i / 72) * 2 * Math.PI), 0.004));
-  }, [frame, p.sweep]);
   // Cross-sections at the level's stations (front, middle, back of the Y travel): a cross-slope that differs from one to
   // the next is the twist.
   const sections = useMemo(
@@ -289,8 +311,8 @@ export function BaseScene(p: SceneProps) {
           <Label text={sec.name} position={sec.labelAt} align="left" heightM={0.09} style={{ color: '#0a4237', background: 'rgba(255,255,255,0.75)' }} />
         </group>
       ))}
-      {sweepRing && <Polyline points={sweepRing} color="#0f5d4e" closed />}
-      {sweepRing && p.sweep && <Label text={p.sweep.label} position={at(frame, 0, -p.sweep.diameterMm / 2 - 40, 0.05)} heightM={0.08} style={{ color: '#0a4237', background: 'rgba(255,255,255,0.85)' }} />}
+      {p.sweep && <SurfaceRing frame={frame} radiusMm={p.sweep.diameterMm / 2} widthMm={14} color="#0f5d4e" />}
+      {p.sweep && <Label text={p.sweep.label} position={at(frame, 0, -p.sweep.diameterMm / 2 - 60, 0.06)} heightM={0.08} style={{ color: '#0a4237', background: 'rgba(255,255,255,0.85)' }} />}
       {p.screws.map((s) => (
         <ScrewPost key={s.id} screw={s} frame={frame} move={moveOf.get(s.id)} />
       ))}
