@@ -243,7 +243,7 @@ function ScrewPost({ screw, frame, move }: { screw: SceneScrew; frame: Frame; mo
           <meshStandardMaterial color="#f2a516" emissive="#7a4f00" />
         </mesh>
       )}
-      <Label text={text} position={new Vector3(surface.x, surface.y + (move?.status === 'pending' ? 0.3 : 0.15), surface.z)} heightM={move ? 0.12 : 0.12} style={style} align={move ? (screw.xMm < 0 ? 'right' : 'left') : 'centre'} />
+      <Label text={text} position={new Vector3(surface.x, surface.y + (move?.status === 'pending' ? 0.32 : 0.15), surface.z)} heightM={move ? 0.15 : 0.12} style={style} align={move ? (screw.xMm < 0 ? 'right' : 'left') : 'centre'} />
     </group>
   );
 }
