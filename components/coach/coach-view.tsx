@@ -81,7 +81,7 @@ export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabe
   const travel = state.travelMm ?? travelMm;
   const model = useMemo(() => safely(() => baseModelOf(state), null), [state]);
   const recommended = useMemo<ScrewMove[]>(() => safely(() => recommendedMoves(state, model), []), [state, model]);
-  const verdict = useMemo(() => stageVerdict(state, state.stage), [state]);
+  const verdict = useMemo(() => stageVerdict(state, state.stage, unitSystem), [state, unitSystem]);
   const series = useMemo(() => sessionSeries(state), [state]);
   const tolerances = tolerancesOf(state);
   const ended = state.ended !== null;

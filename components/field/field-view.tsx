@@ -50,7 +50,7 @@ export function FieldView({ sessionId, unitSystem, machineLabel, tableMm }: Prop
   const guide = STAGE_GUIDES[stage];
   const plan = useMemo(() => stagePlan(stage, state), [stage, state]);
   const round = useMemo(() => currentRound(state, stage), [state, stage]);
-  const verdicts = useMemo(() => Object.fromEntries(SESSION_STAGES.map((s) => [s, stageVerdict(state, s)])) as Record<SessionStage, Verdict>, [state]);
+  const verdicts = useMemo(() => Object.fromEntries(SESSION_STAGES.map((s) => [s, stageVerdict(state, s, unitSystem)])) as Record<SessionStage, Verdict>, [state, unitSystem]);
   const verdict = verdicts[stage];
   const queuedReadings = useMemo(() => pendingReadings(outbox), [outbox]);
   const stagePending = queuedReadings.filter((p) => (p.reading.stage ?? stage) === stage);

@@ -9,6 +9,8 @@ import {
   analyzeTravel,
   checkHeights,
   fitBaseModel,
+  formatLength,
+  formatSlope,
   nominalResponse,
   recommendMoves,
   screwMove,
@@ -20,6 +22,7 @@ import {
   type Screw,
   type ScrewMove,
   type Tolerances,
+  type UnitSystem,
 } from '@/lib/leveling';
 import type { SessionScrew } from './events';
 import type { RecordedReading, SessionState } from './fold';
@@ -151,8 +154,13 @@ export function adjustStageOf(stage: SessionStage): AdjustStage | null {
   return ADJUSTING[stage] ?? null;
 }
 
-/** Whether a stage is done: everything asked for taken or marked, and within tolerance. */
-export function stageVerdict(s: SessionState, stage: SessionStage): Verdict {
+/** How a verdict's detail writes slopes and lengths: the viewer's unit system, or µrad and µm when none is given. */
+export type VerdictUnits = UnitSystem | 'si';
+const slopeText = (urad: number, u: VerdictUnits) => (u === 'si' ? `${urad.toFixed(0)} µrad` : formatSlope(urad, u));
+const lengthText = (um: number, u: VerdictUnits) => (u === 'si' ? `${um.toFixed(1)} µm` : formatLength(um, u));
+
+/** Whether a stage is done: everything asked for taken or marked, and within tolerance (detail in `units`). */
+export function stageVerdict(s: SessionState, stage: SessionStage, units: VerdictUnits = 'si'): Verdict {
   const plan = stagePlan(stage, s);
   const round = currentRound(s, stage);
   const missing = plan.filter((p) => !round.has(readingKey(p))).map((p) => p.label);
@@ -166,7 +174,8 @@ export function stageVerdict(s: SessionState, stage: SessionStage): Verdict {
     const measured = Object.fromEntries([...round.values()].flatMap((r) => (r.kind === 'height' ? [[r.screwId, r.heightMm]] : [])));
     const withSpec = engineScrews(s.screws).filter((sc) => sc.specifiedHeightMm !== undefined);
     for (const h of checkHeights(withSpec, measured, HEIGHT_TOLERANCE_MM)) {
-      if (!h.withinTolerance) fails.push(`${labelOf(s, h.id)} ${h.deviationMm > 0 ? 'high' : 'low'} by ${Math.abs(h.deviationMm).toFixed(2)} mm`);
+      const by = units === 'inch' ? formatLength(Math.abs(h.deviationMm) * 1000, 'inch') : `${Math.abs(h.deviationMm).toFixed(2)} mm`;
+      if (!h.withinTolerance) fails.push(`${labelOf(s, h.id)} ${h.deviationMm > 0 ? 'high' : 'low'} by ${by}`);
     }
   } else if (stage === 'zero-level') {
     for (const r of round.values()) if (r.kind === 'reversal' && !r.repeats) fails.push(`the level does not repeat: zero error ${r.zeroErrorDiv.toFixed(2)} div`);
@@ -179,7 +188,7 @@ export function stageVerdict(s: SessionState, stage: SessionStage): Verdict {
     const adjust = adjustStageOf(stage);
     if (adjust) {
       const readings = [...round.values()].map(toEngineReading).filter((r): r is Reading => r !== null);
-      if (!stageWithinTolerance(adjust, readings, tol)) fails.push(...measuresOutside(readings, tol, adjust));
+      if (!stageWithinTolerance(adjust, readings, tol)) fails.push(...measuresOutside(readings, tol, adjust, units));
     }
   }
   return fails.length > 0 ? { status: 'fail', detail: fails } : { status: 'pass', detail: [] };
@@ -190,27 +199,27 @@ function labelOf(s: SessionState, screwId: string): string {
 }
 
 /** In words, which measures of a round lie outside tolerance. */
-function measuresOutside(readings: Reading[], tol: Tolerances, stage: AdjustStage): string[] {
+function measuresOutside(readings: Reading[], tol: Tolerances, stage: AdjustStage, units: VerdictUnits): string[] {
   const out: string[] = [];
   for (const r of readings) {
     if (r.kind === 'level' && r.yMm === 0 && (stage === 'rough-level' || stage === 'twist') && Math.abs(r.slopeUrad) > tol.levelUrad) {
-      out.push(`${r.axis.toUpperCase()} at the centre reads ${r.slopeUrad.toFixed(0)} µrad (limit ${tol.levelUrad})`);
+      out.push(`${r.axis.toUpperCase()} at the centre reads ${slopeText(r.slopeUrad, units)} (limit ${slopeText(tol.levelUrad, units)})`);
     }
   }
   const along = (axis: 'x' | 'y') =>
     readings.flatMap((r) => (r.kind === 'level' && r.axis === axis ? [{ posMm: r.yMm, slopeUrad: r.slopeUrad }] : []));
   if (stage === 'twist') {
     const t = analyzeTravel(along('x'), tol.twistUrad);
-    if (!t.withinTolerance) out.push(`twist ${t.changeUrad.toFixed(0)} µrad over the travel (limit ${tol.twistUrad})`);
+    if (!t.withinTolerance) out.push(`twist ${slopeText(t.changeUrad, units)} over the travel (limit ${slopeText(tol.twistUrad, units)})`);
   }
   if (stage === 'bow' || stage === 'spindle-sweep') {
     const b = analyzeTravel(along('y'), tol.bowUrad);
-    if (!b.withinTolerance) out.push(`bow ${b.changeUrad.toFixed(0)} µrad over the travel (limit ${tol.bowUrad})`);
+    if (!b.withinTolerance) out.push(`bow ${slopeText(b.changeUrad, units)} over the travel (limit ${slopeText(tol.bowUrad, units)})`);
   }
   for (const r of readings) {
     if (r.kind === 'sweep') {
       const a = analyzeSweep(r, tol.sweepTirUm);
-      if (!a.withinLimit) out.push(`sweep TIR ${a.tirUm.toFixed(1)} µm (limit ${tol.sweepTirUm.toFixed(1)})`);
+      if (!a.withinLimit) out.push(`sweep TIR ${lengthText(a.tirUm, units)} (limit ${lengthText(tol.sweepTirUm, units)})`);
     }
   }
   return out.length > 0 ? out : ['out of tolerance'];

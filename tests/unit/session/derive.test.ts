@@ -53,6 +53,8 @@ describe('stage verdicts', () => {
     const fail = stageVerdict(foldEvents(base), 'twist');
     expect(fail.status).toBe('fail');
     expect(fail.detail.join(' ')).toMatch(/twist 25 µrad/);
+    // In inches: 25 µrad = 0.00025 in per 10 in (1 in = 25.4 mm, NIST; a ratio keeps its value in any length unit).
+    expect(stageVerdict(foldEvents(base), 'twist', 'inch').detail.join(' ')).toMatch(/twist 0\.00025 in\/10 in over the travel \(limit 0\.00020 in\/10 in\)/);
     const pass = stageVerdict(foldEvents([...base, level('twist', 'x', -250, 5), level('twist', 'x', 250, 20), level('twist', 'x', 0, 10)]), 'twist');
     expect(pass).toEqual({ status: 'pass', detail: [] });
   });
