@@ -98,6 +98,8 @@ test('three people level a machine together, and each sees every event once and 
       vm.applyMove(screwId, turns * screw.liftPerTurnMm * 1000);
       await expect(field.locator(`[data-testid="move-card"][data-move-id="${moveId}"]`)).toHaveCount(0);
     }
+    // Once the answers are stored a new round begins: the stage asks for its readings again.
+    await expect(panel.locator('[data-testid="planned-reading"][data-taken="false"]').first()).toBeVisible();
   }
 
   const rounds: Record<string, number> = {};
