@@ -43,30 +43,67 @@ const signInPage = await (await browser.newContext({ viewport: { width: 1280, he
 await signInPage.goto(`${base}/sign-in`);
 await signInPage.screenshot({ path: `${out}/sign-in.png` });
 
-const tech = await signIn('technician', { width: 412, height: 915 });
+const tech = await signIn('technician', { width: 390, height: 844 });
 await tech.getByRole('heading', { name: 'Start leveling a machine' }).waitFor();
 await tech.screenshot({ path: `${out}/start-phone.png`, fullPage: true });
+
+// A fresh session on the walkthrough machine, coached by the demo expert.
 await tech.getByLabel(/^Find a machine/).fill(DEMO_MACHINE_SERIAL);
-await tech.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL }).getByRole('button', { name: /^Start leveling/ }).click();
-await tech.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL }).getByRole('button', { name: /^Open (with|without)/ }).click();
+const row = tech.getByRole('listitem').filter({ hasText: DEMO_MACHINE_SERIAL });
+await row.getByRole('button', { name: /^Start leveling/ }).click();
+await row.getByLabel('Ewan Marsh').check();
+await row.getByRole('button', { name: /^Open with/ }).click();
 await tech.waitForURL(/\/field$/);
 const sessionPath = new URL(tech.url()).pathname.replace(/\/field$/, '');
-for (const [axis, station, div] of [['X', 'Front', '1.5'], ['X', 'Back', '-0.5'], ['Y', 'Middle', '-2']] as const) {
-  await tech.getByRole('button', { name: new RegExp(`^${axis} · `) }).click();
-  await tech.getByRole('button', { name: new RegExp(`^${station}`) }).click();
-  await tech.getByLabel('or type divisions').fill(div);
-  await tech.getByRole('button', { name: 'Record reading' }).click();
-  await tech.getByRole('status').filter({ hasText: 'Reading stored' }).waitFor();
-}
-await tech.getByRole('slider').click({ position: { x: 250, y: 40 } });
-await tech.screenshot({ path: `${out}/field-phone.png`, fullPage: true });
+await tech.locator('[data-testid="link-state"][data-link="live"]').waitFor();
+await tech.screenshot({ path: `${out}/field-phone-prepare.png` });
 
+// Straight to rough level (the walkthrough skips the earlier stages), and two readings off level.
+const panel = tech.getByTestId('stage-panel');
+while ((await panel.getAttribute('data-stage')) !== 'rough-level') {
+  const from = await panel.getAttribute('data-stage');
+  await tech.getByRole('button', { name: 'Next stage' }).click();
+  const anyway = tech.getByRole('button', { name: 'Continue anyway' });
+  if (await anyway.isVisible().catch(() => false)) await anyway.click();
+  await tech.waitForFunction((f) => document.querySelector('[data-testid="stage-panel"]')?.getAttribute('data-stage') !== f, from);
+}
+for (const [key, div] of [['level:x:0', '4'], ['level:y:0', '-2.5']] as const) {
+  await panel.locator(`[data-testid="planned-reading"][data-key="${key}"]`).click();
+  await tech.locator('input[name="divisions"]').fill(div);
+  await tech.getByRole('button', { name: 'Record reading' }).click();
+  await panel.locator(`[data-testid="planned-reading"][data-key="${key}"][data-taken="true"]`).waitFor();
+}
+await panel.locator('[data-testid="stage-verdict"][data-status="fail"]').waitFor();
+
+// The expert sends the engine's moves; the technician's screen shows them.
 const expert = await signIn('expert', { width: 1440, height: 900 });
 await expert.goto(`${base}${sessionPath}/coach`);
-await expert.locator('[data-link="live"]').waitFor();
+await expert.locator('[data-testid="link-state"][data-link="live"]').waitFor();
+await expert.getByTestId('recommended-move').first().waitFor();
 await expert.locator('canvas').waitFor();
-await expert.waitForTimeout(1500);
-await expert.screenshot({ path: `${out}/coach-desktop.png` });
+await expert.waitForTimeout(1000);
+await expert.screenshot({ path: `${out}/coach-recommended.png` });
+await expert.getByRole('button', { name: 'Send all recommended' }).click();
+await tech.getByTestId('move-card').first().waitFor();
+await tech.waitForTimeout(500);
+await tech.screenshot({ path: `${out}/field-phone-move.png` });
+
+// The demo session: the virtual technician reads twist; the expert sees tilt and twist on the base model.
+const demo = ((await (await expert.request.get(`${base}/api/sessions`)).json()) as { sessions: { id: string; demo: boolean; state: string }[] }).sessions.find(
+  (x) => x.demo && x.state === 'live',
+);
+if (demo) {
+  await expert.goto(`${base}/sessions/${demo.id}/coach`);
+  const stage = expert.getByTestId('coach-stage');
+  for (let i = 0; i < 60 && (await stage.getAttribute('data-stage')) !== 'twist'; i++) {
+    const send = expert.getByRole('button', { name: 'Send all recommended' });
+    if (await send.isVisible().catch(() => false)) await send.click();
+    await expert.waitForTimeout(1500);
+  }
+  await expert.getByTestId('recommended-move').first().waitFor({ timeout: 30_000 }).catch(() => undefined);
+  await expert.waitForTimeout(1500);
+  await expert.screenshot({ path: `${out}/coach-desktop.png` });
+} else console.log('no live demo session: coach-desktop.png not taken');
 
 console.log('JavaScript each page loads, until the network is idle (gzip -9):');
 console.log('  field view', await firstLoadJs(tech, `${sessionPath}/field`));

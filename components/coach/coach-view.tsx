@@ -3,7 +3,8 @@
 import { useMemo, useRef, useState } from 'react';
 import { DEFAULT_SWEEP_DIAMETER_MM, stageScrews, type BaseModel, type ScrewMove } from '@/lib/leveling';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
-import { adjustStageOf, baseModelOf, engineScrews, pendingMoves, recommendedMoves, stageVerdict, tolerancesOf } from '@/lib/session/derive';
+import { baseModelOf, recommendedMoves } from '@/lib/session/advice';
+import { adjustStageOf, engineScrews, pendingMoves, stageVerdict, tolerancesOf } from '@/lib/session/derive';
 import type { SessionScrew } from '@/lib/session/events';
 import type { SessionState } from '@/lib/session/fold';
 import { sessionSeries } from '@/lib/session/series';

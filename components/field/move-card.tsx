@@ -25,7 +25,7 @@ type Props = {
  */
 export function MoveCard({ move, screwLabel, sessionId, unitSystem, onAnswer, topView }: Props) {
   const words = moveWords(move);
-  const [turns, setTurns] = useState(String(move.turns));
+  const [turns, setTurns] = useState(String(Math.round(move.turns * 10_000) / 10_000));
   const [reason, setReason] = useState('');
   const [problem, setProblem] = useState<{ field: string | null; message: string } | null>(null);
   const [busy, setBusy] = useState(false);

@@ -1,5 +1,5 @@
 import { formatPosition } from '@/lib/display-units';
-import { analyzeSweep } from '@/lib/leveling';
+import { analyzeSweep } from '@/lib/leveling/sweep';
 import { formatLength, formatSlope, type UnitSystem } from '@/lib/leveling/units';
 import { readingKey, tolerancesOf, type PlannedReading, type Verdict } from '@/lib/session/derive';
 import type { RecordedReading, SessionState } from '@/lib/session/fold';

@@ -1,29 +1,15 @@
 /**
- * What the views and the server read off a folded session: the plan of readings for a stage, the stage's
- * verdict, the base model and the engine's recommended moves. Pure; no clock, no I/O.
+ * What the views and the server read off a folded session: the plan of readings for a stage and the stage's
+ * verdict (the base model and the engine's recommended moves are in advice.ts, which the field view does not load).
+ * Imports single engine modules, not its index, to keep the field view's bundle small. Pure; no clock, no I/O.
  */
-import {
-  DEFAULT_SWEEP_DIAMETER_MM,
-  DEFAULT_TOLERANCES,
-  analyzeSweep,
-  analyzeTravel,
-  checkHeights,
-  fitBaseModel,
-  formatLength,
-  formatSlope,
-  nominalResponse,
-  recommendMoves,
-  screwMove,
-  stageWithinTolerance,
-  type AdjustStage,
-  type BaseModel,
-  type BaseModelEntry,
-  type Reading,
-  type Screw,
-  type ScrewMove,
-  type Tolerances,
-  type UnitSystem,
-} from '@/lib/leveling';
+import type { Reading } from '@/lib/leveling/base-model';
+import { checkHeights, type Screw } from '@/lib/leveling/footprint';
+import { DEFAULT_TOLERANCES, stageWithinTolerance, type AdjustStage, type Tolerances } from '@/lib/leveling/stages';
+import { DEFAULT_SWEEP_DIAMETER_MM, analyzeSweep } from '@/lib/leveling/sweep';
+import { screwMove, type ScrewMove } from '@/lib/leveling/tilt-solve';
+import { analyzeTravel } from '@/lib/leveling/travel';
+import { formatLength, formatSlope, type UnitSystem } from '@/lib/leveling/units';
 import type { SessionScrew } from './events';
 import type { RecordedReading, SessionState } from './fold';
 import { PREPARE_ITEMS, jamItem, padItem, type SessionStage } from './stages';
@@ -225,50 +211,9 @@ function measuresOutside(readings: Reading[], tol: Tolerances, stage: AdjustStag
   return out.length > 0 ? out : ['out of tolerance'];
 }
 
-/** The entries the base model is fitted to: level and sweep readings, and moves answered done, in log order. */
-export function baseModelEntries(s: SessionState): BaseModelEntry[] {
-  const items: { seq: number; entry: BaseModelEntry }[] = [];
-  for (const r of s.readings) {
-    const e = toEngineReading(r);
-    if (e) items.push({ seq: r.seq, entry: e });
-  }
-  for (const m of s.moves) if (m.status === 'done' && m.doneRaiseUm !== null) items.push({ seq: m.answeredSeq!, entry: { kind: 'move', screwId: m.screwId, raiseUm: m.doneRaiseUm } });
-  return items.sort((a, b) => a.seq - b.seq).map((i) => i.entry);
-}
-
-/** The engine's base model of the session so far, or null before the footprint is known or any reading is taken. */
-export function baseModelOf(s: SessionState): BaseModel | null {
-  if (s.screws.length < 3 || s.travelMm === null) return null;
-  const entries = baseModelEntries(s);
-  if (!entries.some((e) => e.kind !== 'move')) return null;
-  const screws = engineScrews(s.screws);
-  return fitBaseModel(entries, { screwIds: screws.map((sc) => sc.id), response: nominalResponse(screws, s.travelMm), travelMm: s.travelMm });
-}
-
-/**
- * When the as-left readings fail, the correction to make (jam nuts loosened first): twist on the corners if the
- * twist came back, else bow and sweep on the middle screws.
- */
-function asLeftCorrection(s: SessionState): AdjustStage {
-  const readings = [...currentRound(s, 'lock-as-left').values()].map(toEngineReading).filter((r): r is Reading => r !== null);
-  return stageWithinTolerance('twist', readings, tolerancesOf(s)) ? 'spindle-sweep' : 'twist';
-}
-
 /** Pending moves (sent, not yet answered). */
 export function pendingMoves(s: SessionState) {
   return s.moves.filter((m) => m.status === 'pending');
-}
-
-/**
- * The engine's recommended moves for the current stage: none while moves are pending, while the stage's round is
- * incomplete or already passes, or in stages where no screw is turned.
- */
-export function recommendedMoves(s: SessionState, model: BaseModel | null = baseModelOf(s)): ScrewMove[] {
-  const adjust = adjustStageOf(s.stage) ?? (s.stage === 'lock-as-left' ? asLeftCorrection(s) : null);
-  if (!adjust || !model || s.travelMm === null || pendingMoves(s).length > 0) return [];
-  if (stageVerdict(s, s.stage).status !== 'fail') return [];
-  const screws = engineScrews(s.screws);
-  return recommendMoves({ stage: adjust, screws, state: model.state, response: nominalResponse(screws, s.travelMm), tolerances: tolerancesOf(s) });
 }
 
 /** A move of `turns` on a screw of the session, in µm (to the nanometre, dropping float noise), turns and degrees. */

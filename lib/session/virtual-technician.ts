@@ -20,12 +20,12 @@ import {
   engineScrews,
   moveOfTurns,
   readingKey,
-  recommendedMoves,
   stageChecklist,
   stagePlan,
   stageVerdict,
   type PlannedReading,
 } from './derive';
+import { recommendedMoves } from './advice';
 import type { EventType, PayloadOf, ReadingPayload, SessionEvent, SessionOpenedPayload } from './events';
 import { foldEvents, initialState, type SessionState } from './fold';
 import { answerMove, enterStage, markCheck, postNote, recordReading } from './service';

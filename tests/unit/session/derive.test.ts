@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { evaluate } from 'mathjs';
 import type { SessionEvent, SessionScrew } from '@/lib/session/events';
 import { foldEvents } from '@/lib/session/fold';
-import { baseModelOf, currentRound, moveOfTurns, recommendedMoves, stagePlan, stageVerdict, stations } from '@/lib/session/derive';
+import { baseModelOf, recommendedMoves } from '@/lib/session/advice';
+import { currentRound, moveOfTurns, stagePlan, stageVerdict, stations } from '@/lib/session/derive';
 import { jamItem, padItem } from '@/lib/session/stages';
 
 let seq = 0;
