@@ -59,19 +59,22 @@ export async function appendEventInTx(tx: Tx, e: NewEvent): Promise<Appended> {
 export async function appendChecked(
   db: Db,
   key: { sessionId: string; id: string; type: EventType },
-  build: (tx: Tx) => Promise<NewEvent>,
+  build: (tx: Tx, head: SessionHead) => Promise<NewEvent>,
 ): Promise<Appended> {
   return db.transaction(async (tx) => {
     const head = await lockHead(tx, key.sessionId);
     const existing = await findById(tx, key);
     if (existing) return existing;
-    return insertEvent(tx, head, await build(tx));
+    return insertEvent(tx, head, await build(tx, head));
   });
 }
 
-async function lockHead(tx: Tx, sessionId: string) {
+/** The session row as the append sees it under its lock. */
+export type SessionHead = { lastSeq: number; lastHash: string; state: string };
+
+async function lockHead(tx: Tx, sessionId: string): Promise<SessionHead> {
   const [head] = await tx
-    .select({ lastSeq: levelingSessions.lastSeq, lastHash: levelingSessions.lastHash })
+    .select({ lastSeq: levelingSessions.lastSeq, lastHash: levelingSessions.lastHash, state: levelingSessions.state })
     .from(levelingSessions)
     .where(eq(levelingSessions.id, sessionId))
     .for('update');

@@ -6,7 +6,7 @@ import { AppError } from '@/lib/errors';
 import { broadcast } from '@/lib/realtime/bus';
 import { checkUpload, getObject, MAX_UPLOAD_BYTES, putObject, type UploadType } from '@/lib/storage';
 import type { PhotoAttachedPayload, SessionEvent } from './events';
-import { accessForCommand, accessSession } from './service';
+import { accessForCommand, accessSession, assertLive } from './service';
 import type { SessionStage } from './stages';
 
 /** What a photo may be: images only (a certificate's PDF is not a photo). */
@@ -49,17 +49,19 @@ export type PhotoUpload = { id: string; sessionId: string; stage: SessionStage; 
  */
 export async function attachPhoto(db: Db, actor: Actor, upload: PhotoUpload): Promise<{ event: SessionEvent; duplicate: boolean }> {
   const type = await checkPhoto(upload.bytes);
-  await accessForCommand(db, actor, upload.sessionId, 'photo:attach');
+  const access = await accessForCommand(db, actor, upload.sessionId, 'photo:attach');
   const stored = await getSessionEventById(db, { sessionId: upload.sessionId, id: upload.id });
   if (stored) {
     if (stored.type !== 'photo:attached') throw new AppError('conflict:event', 'That event id is already used by another event', 'id');
     return { event: stored, duplicate: true };
   }
+  assertLive(access.session); // before anything is stored; checked again under the lock
   const thumb = await makeThumbnail(upload.bytes);
   const folder = `sessions/${upload.sessionId}/photos`;
   const key = await putObject(folder, upload.bytes, type);
   const thumbKey = await putObject(folder, thumb, 'image/webp');
-  const result = await appendChecked(db, { sessionId: upload.sessionId, id: upload.id, type: 'photo:attached' }, async () => {
+  const result = await appendChecked(db, { sessionId: upload.sessionId, id: upload.id, type: 'photo:attached' }, async (_tx, head) => {
+    assertLive(head);
     const payload: PhotoAttachedPayload = {
       photoId: upload.id,
       stage: upload.stage,

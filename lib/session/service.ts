@@ -1,5 +1,5 @@
 import type { Db } from '@/db/client';
-import { appendChecked, listEventsBySession, type NewEvent, type Tx } from '@/db/queries/events';
+import { appendChecked, listEventsBySession, type NewEvent, type SessionHead, type Tx } from '@/db/queries/events';
 import { getSessionAccess, getSessionForOrganisation, setSessionState, type SessionAccessRow } from '@/db/queries/sessions';
 import type { Actor } from '@/lib/auth/actor';
 import { assertCan } from '@/lib/auth/policy';
@@ -58,15 +58,22 @@ export async function loadSessionFor(db: Db, actor: Actor, sessionId: string) {
   return { ...session, standing: access.standing };
 }
 
-/** Checks the caller may send `command` now: the right part, and the session live. */
+/** Checks the caller may send `command`: the right part in the session (whether it is still live is checked at the append). */
 export async function accessForCommand(db: Db, actor: Actor, sessionId: string, command: SessionCommand): Promise<SessionAccess> {
   const access = await accessSession(db, actor, sessionId);
   if (!(COMMAND_PARTS[command] as readonly Standing[]).includes(access.standing)) {
     const who = COMMAND_PARTS[command].join(' or ');
     throw new AppError(`forbidden:${command.split(':')[0]}`, `Only the session’s ${who} ${doing[command]}; you are ${access.standing === 'reader' ? 'reading it' : `its ${access.standing}`}`);
   }
-  if (access.session.state !== 'live') throw new AppError('conflict:session', `The session is ${access.session.state.replace('_', ' ')}, not live`);
   return access;
+}
+
+/**
+ * Refuses a command once the session is no longer live. Checked under the session's row lock, after a resent id has
+ * been answered with its stored event, so a command stored before the end and resent after it still gets its ack.
+ */
+export function assertLive(head: Pick<SessionHead, 'state'>): void {
+  if (head.state !== 'live') throw new AppError('conflict:session', `The session is ${head.state.replace('_', ' ')}, not live`);
 }
 
 /** The session as it stands, folded from its log (inside the append transaction, under the session's row lock). */
@@ -87,7 +94,10 @@ function base(actor: Actor, cmd: { id: string; sessionId: string; clientTs?: str
 }
 
 async function commit(db: Db, key: { sessionId: string; id: string; type: NewEvent['type'] }, build: (tx: Tx) => Promise<NewEvent>): Promise<Done> {
-  const result = await appendChecked(db, key, build);
+  const result = await appendChecked(db, key, async (tx, head) => {
+    assertLive(head);
+    return build(tx);
+  });
   if (!result.duplicate) broadcast(result.event);
   return result;
 }

@@ -159,7 +159,11 @@ describe('socket.io realtime path', () => {
     const { session } = await openSession(db, { organisationId: org.organisationId, machineId: org.machineId, technician: org.users.technician, levelDivisionUrad: 20, experts: [org.users.expert.id] });
     const expert = await rt.as(org.users.expert);
     const tech = await rt.as(org.users.technician);
+    const storedBefore = { id: randomUUID(), sessionId: session.id, reading: { kind: 'level' as const, axis: 'x' as const, positionMm: 0, divisions: 0.5 } };
+    const first = await tech.emitWithAck('reading:submit', storedBefore);
     expect(await expert.emitWithAck('session:end', { id: randomUUID(), sessionId: session.id })).toMatchObject({ ok: true });
+    // a reading stored before the end and resent after it (its ack was lost) still gets its ack, as a duplicate
+    expect(await tech.emitWithAck('reading:submit', storedBefore)).toMatchObject({ ok: true, duplicate: true, seq: first.ok ? first.seq : -1 });
     expect(await tech.emitWithAck('reading:submit', { id: randomUUID(), sessionId: session.id, reading: { kind: 'level', axis: 'x', positionMm: 0, divisions: 1 } })).toMatchObject({
       ok: false,
       error: { code: 'conflict:session' },
