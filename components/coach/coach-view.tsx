@@ -9,6 +9,7 @@ import type { SessionScrew } from '@/lib/session/events';
 import type { SessionState } from '@/lib/session/fold';
 import { sessionSeries } from '@/lib/session/series';
 import { STAGE_GUIDES } from '@/lib/session/stages';
+import { AddParticipant } from '@/components/session/add-participant';
 import { useLiveSession, type Link } from '@/components/session/use-live-session';
 import type { SceneMove } from '@/components/viewer/tilt-view';
 import { BaseNumbers } from './base-numbers';
@@ -35,6 +36,8 @@ type Props = {
   fallbackScrews: SessionScrew[];
   table: { lengthMm: number; widthMm: number };
   travelMm: number;
+  /** An admin may call people into a session (besides its technician, who does it from the field view). */
+  mayAddPeople: boolean;
 };
 
 const LINK_LOOK: Record<Link, { text: string; cls: string }> = {
@@ -75,7 +78,7 @@ function noMovesReason(state: SessionState, model: BaseModel | null, verdict: Re
 }
 
 /** The expert's screen: the tilt view, the engine's moves, the measures by round, the stage, presence and notes. */
-export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabel, technicianName, fallbackScrews, table, travelMm }: Props) {
+export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabel, technicianName, fallbackScrews, table, travelMm, mayAddPeople }: Props) {
   const { events, state, link, presence, outbox, rejected, dismissRejected, send, seen } = useLiveSession(sessionId);
   const [sending, setSending] = useState(false);
   const screws = state.screws.length > 0 ? state.screws : fallbackScrews;
@@ -218,6 +221,7 @@ export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabe
         {canSendMoves && <ManualMove screws={screws} unitSystem={unitSystem} busy={moveBusy} onSend={sendMove} />}
         <MovesList moves={state.moves} screws={screws} unitSystem={unitSystem} />
         <PresencePanel presence={presence} participants={state.participants} selfId={selfId} />
+        {mayAddPeople && !ended && <AddParticipant sessionId={sessionId} participants={state.participants} />}
         <NotesPanel notes={state.notes} participants={state.participants} selfId={selfId} canPost={canPost} onPost={async (text) => void (await send('note:post', { text }))} />
         <CoachCautions stageCautions={STAGE_GUIDES[state.stage].cautions} />
       </aside>

@@ -6,6 +6,7 @@ import type { UnitSystem } from '@/lib/leveling/units';
 import type { ReadingInput } from '@/lib/session/commands';
 import { currentRound, readingKey, stageChecklist, stagePlan, stageVerdict, stations, type PlannedReading, type Verdict } from '@/lib/session/derive';
 import { SESSION_STAGES, STAGE_GUIDES, STANDING_CAUTIONS, nextStage, type SessionStage } from '@/lib/session/stages';
+import { AddParticipant } from '@/components/session/add-participant';
 import { registerFieldWorker } from '@/components/session/register-field-worker';
 import { useLiveSession } from '@/components/session/use-live-session';
 import { answeredInOutbox, keyOfInput, pendingChecks, pendingNotes, pendingReadings, pendingStage, placementOf } from './field-logic';
@@ -362,6 +363,7 @@ export function FieldView({ sessionId, unitSystem, machineLabel, tableMm }: Prop
 
       <NotesPanel sessionId={sessionId} notes={state.notes} pending={pendingNotes(outbox)} participants={state.participants} disabled={ended} onPost={async (body) => void (await send('note:post', body))} />
       <PhotoPanel sessionId={sessionId} stage={stage} photos={state.photos} online={link === 'live'} disabled={ended} />
+      {!ended && link === 'live' && <AddParticipant sessionId={sessionId} participants={state.participants} large />}
 
       <output hidden data-testid="seen-seqs">
         {seen.current.join(',')}

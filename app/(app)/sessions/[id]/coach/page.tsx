@@ -30,6 +30,7 @@ export default async function CoachPage({ params }: { params: Promise<{ id: stri
       fallbackScrews={fallbackScrews}
       table={{ lengthMm: machine.tableLengthMm, widthMm: machine.tableWidthMm }}
       travelMm={machine.travelYMm}
+      mayAddPeople={actor.role === 'admin'}
     />
   );
 }
