@@ -1,4 +1,4 @@
-import { ZodError } from 'zod';
+import { $ZodError } from 'zod/v4/core';
 
 /** Levelwire's one error vocabulary: `kind:surface` codes, each with its HTTP status. */
 const statusByKind = {
@@ -31,7 +31,7 @@ export class AppError extends Error {
 }
 
 /** The first problem of a zod failure as a 400 naming the field. */
-export function fromZod(err: ZodError, surface: string): AppError {
+export function fromZod(err: $ZodError, surface: string): AppError {
   const issue = err.issues[0];
   const field = issue && issue.path.length > 0 ? issue.path.join('.') : undefined;
   const what = field ? `${field}: ${issue?.message}` : (issue?.message ?? 'invalid input');
@@ -41,7 +41,7 @@ export function fromZod(err: ZodError, surface: string): AppError {
 /** Anything thrown, as an AppError; unknown errors are logged and hidden behind a generic message. */
 export function toAppError(err: unknown, surface = 'api'): AppError {
   if (err instanceof AppError) return err;
-  if (err instanceof ZodError) return fromZod(err, surface);
+  if (err instanceof $ZodError) return fromZod(err, surface);
   console.error(`[levelwire] unexpected error (${surface})`, err);
   return new AppError('internal:server', 'Something went wrong on the server; nothing was changed.');
 }

@@ -1,5 +1,5 @@
 import { NextResponse } from 'next/server';
-import type { z } from 'zod';
+import * as z from 'zod/mini';
 import { AppError, fromZod, problem, toAppError } from './errors';
 
 /** Wraps a route handler: any thrown error becomes `application/problem+json` with its status; unknown errors a bare 500. */
@@ -15,10 +15,10 @@ export function route<C>(surface: string, fn: (req: Request, ctx: C) => Promise<
 }
 
 /** Parses with a zod schema; a failure is a 400 naming the field. */
-export function parseWith<S extends z.ZodType>(schema: S, value: unknown, surface: string): z.output<S> {
-  const parsed = schema.safeParse(value);
+export function parseWith<S extends z.ZodMiniType | z.core.$ZodType>(schema: S, value: unknown, surface: string): z.output<S> {
+  const parsed = z.safeParse(schema as z.core.$ZodType, value);
   if (!parsed.success) throw fromZod(parsed.error, surface);
-  return parsed.data;
+  return parsed.data as z.output<S>;
 }
 
 /** The request body as JSON; a body that is not JSON is a 400. */

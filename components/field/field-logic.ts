@@ -2,7 +2,7 @@
  * Plain functions behind the field view: what the outbox still holds, conversions from what the technician types
  * to what the commands carry, and the words for a move. No React, no browser: unit tests import these directly.
  */
-import type { ZodError } from 'zod';
+import type { $ZodError } from 'zod/v4/core';
 import { convertLength, type UnitSystem } from '@/lib/leveling/units';
 import type { ReadingInput } from '@/lib/session/commands';
 import { readingKey, type PlannedReading } from '@/lib/session/derive';
@@ -99,7 +99,7 @@ export function entryUnits(system: UnitSystem): { height: string; indicator: str
 const FORM_NAMES: Record<string, string> = { heightMm: 'height', frontUm: 'front', backUm: 'back', leftUm: 'left', rightUm: 'right', diameterMm: 'sweep diameter' };
 
 /** The first problem of a failed parse, as "field: message", naming the form's field. */
-export function fieldError(err: ZodError): { field: string | null; message: string } {
+export function fieldError(err: $ZodError): { field: string | null; message: string } {
   const issue = err.issues[0];
   if (!issue) return { field: null, message: 'invalid input' };
   const last = issue.path.at(-1);

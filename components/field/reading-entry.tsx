@@ -1,7 +1,7 @@
 'use client';
 
 import { useState, type FormEvent, type ReactNode } from 'react';
-import type { ZodType } from 'zod';
+import * as z from 'zod/mini';
 import { formatPosition } from '@/lib/display-units';
 import type { UnitSystem } from '@/lib/leveling/units';
 import { heightReadingInput, levelReadingInput, reversalReadingInput, sweepReadingInput, type ReadingInput } from '@/lib/session/commands';
@@ -40,7 +40,7 @@ export function ReadingEntry({ target, stage, unitSystem, screws, onRecord }: Pr
     return t !== null && Number.isFinite(t) ? t : (vials[name] ?? null);
   };
 
-  function check<T>(schema: ZodType<T>, input: unknown): T | null {
+  function check<S extends z.ZodMiniType>(schema: S, input: unknown): z.output<S> | null {
     const parsed = schema.safeParse(input);
     if (parsed.success) return parsed.data;
     setProblem(fieldError(parsed.error));

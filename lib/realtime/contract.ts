@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod/mini';
 import { checkMark, moveAnswer, moveSend, notePost, readingSubmit, sessionEnd, sessionJoin, stageEnter } from '@/lib/session/commands';
 import { EVENT_TYPES, type SessionEvent } from '@/lib/session/events';
 
@@ -25,7 +25,7 @@ export const commands = {
   'note:post': notePost,
   'session:end': sessionEnd,
   /** Round-trip probe for the presence panel: answers at once, stores nothing. */
-  'link:ping': z.strictObject({ sessionId: z.uuid(), rttMs: z.number().finite().min(0).max(60_000).optional() }),
+  'link:ping': z.strictObject({ sessionId: z.uuid(), rttMs: z.optional(z.number().check(z.gte(0), z.lte(60_000))) }),
 } as const;
 
 /** Commands that append one event: their acknowledgement carries the event's seq. */

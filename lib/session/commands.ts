@@ -1,14 +1,12 @@
-import { z } from 'zod';
+// zod/mini: the field view validates with these schemas too, and the mini build keeps its bundle small.
+import * as z from 'zod/mini';
 import { SESSION_STAGES } from './stages';
 
 /** A finite number within [min, max]; the error names the range (the field's name comes from the path). */
 const num = (_label: string, min: number, max: number) => {
   const range = min === -max ? `within ±${max}` : `from ${min} to ${max}`;
-  return z
-    .number({ error: 'must be a number' })
-    .finite('must be a finite number')
-    .min(min, `must be ${range}`)
-    .max(max, `must be ${range}`);
+  // zod 4 numbers refuse NaN and ±Infinity themselves.
+  return z.number({ error: 'must be a number' }).check(z.gte(min, `must be ${range}`), z.lte(max, `must be ${range}`));
 };
 
 const stage = z.enum(SESSION_STAGES, { error: `must be one of ${SESSION_STAGES.join(', ')}` });
@@ -18,7 +16,7 @@ const axis = z.enum(['x', 'y'], { error: 'must be "x" or "y"' });
 export const levelReadingInput = z.strictObject({
   kind: z.literal('level'),
   /** The stage the reading was taken in (the technician's screen decides; offline readings keep theirs). */
-  stage: stage.optional(),
+  stage: z.optional(stage),
   /** The axis the level lies along: 'x' across the table (left-right), 'y' along it (front-back). */
   axis,
   /** Where the level sits along the Y travel, mm from the table centre. */
@@ -49,7 +47,7 @@ export const heightReadingInput = z.strictObject({
 export const sweepReadingInput = z.strictObject({
   kind: z.literal('sweep'),
   stage,
-  diameterMm: num('sweep diameter', 10, 2000).default(254),
+  diameterMm: z._default(num('sweep diameter', 10, 2000), 254),
   frontUm: num('front', -5000, 5000),
   backUm: num('back', -5000, 5000),
   leftUm: num('left', -5000, 5000),
@@ -65,7 +63,7 @@ export type ReadingInput = z.input<typeof readingInput>;
 const commandBase = {
   id: z.uuid({ error: 'must be a UUID made by the client' }),
   sessionId: z.uuid({ error: 'must be a UUID' }),
-  clientTs: z.iso.datetime({ offset: true, error: 'must be an ISO 8601 time' }).optional(),
+  clientTs: z.optional(z.iso.datetime({ offset: true, error: 'must be an ISO 8601 time' })),
 };
 
 export const readingSubmit = z.strictObject({ ...commandBase, reading: readingInput });
@@ -77,7 +75,7 @@ export type StageEnter = z.infer<typeof stageEnter>;
 export const checkMark = z.strictObject({
   ...commandBase,
   stage,
-  item: z.string().trim().min(1, 'must name the checklist item').max(80),
+  item: z.string().check(z.trim(), z.minLength(1, 'must name the checklist item'), z.maxLength(80, 'must be at most 80 characters')),
   done: z.boolean({ error: 'must be true or false' }),
 });
 export type CheckMark = z.infer<typeof checkMark>;
@@ -87,9 +85,9 @@ export const moveSend = z.strictObject({
   ...commandBase,
   stage,
   screwId: z.uuid({ error: 'must be the id of one of the machine’s screws' }),
-  turns: num('turns', -5, 5).refine((t) => t !== 0, 'must not be zero'),
-  recommended: z.boolean().default(false),
-  note: z.string().trim().max(500, 'must be at most 500 characters').optional(),
+  turns: num('turns', -5, 5).check(z.refine((t) => t !== 0, 'must not be zero')),
+  recommended: z._default(z.boolean(), false),
+  note: z.optional(z.string().check(z.trim(), z.maxLength(500, 'must be at most 500 characters'))),
 });
 export type MoveSend = z.infer<typeof moveSend>;
 
@@ -101,7 +99,7 @@ export const moveAnswer = z.discriminatedUnion(
       ...commandBase,
       moveId: z.uuid({ error: 'must be a UUID' }),
       outcome: z.literal('cannot'),
-      reason: z.string().trim().min(1, 'must say why the move cannot be made').max(500, 'must be at most 500 characters'),
+      reason: z.string().check(z.trim(), z.minLength(1, 'must say why the move cannot be made'), z.maxLength(500, 'must be at most 500 characters')),
     }),
   ],
   { error: 'must be "done" or "cannot"' },
@@ -110,27 +108,27 @@ export type MoveAnswer = z.infer<typeof moveAnswer>;
 
 export const notePost = z.strictObject({
   ...commandBase,
-  text: z.string().trim().min(1, 'must not be empty').max(2000, 'must be at most 2000 characters'),
+  text: z.string().check(z.trim(), z.minLength(1, 'must not be empty'), z.maxLength(2000, 'must be at most 2000 characters')),
 });
 export type NotePost = z.infer<typeof notePost>;
 
-export const sessionEnd = z.strictObject({ ...commandBase, reason: z.string().trim().max(500).optional() });
+export const sessionEnd = z.strictObject({ ...commandBase, reason: z.optional(z.string().check(z.trim(), z.maxLength(500, 'must be at most 500 characters'))) });
 export type SessionEnd = z.infer<typeof sessionEnd>;
 
 export const sessionJoin = z.strictObject({
   sessionId: z.uuid({ error: 'must be a UUID' }),
-  afterSeq: z.number().int().min(0).default(0),
+  afterSeq: z._default(z.int().check(z.gte(0)), 0),
 });
 export type SessionJoin = z.infer<typeof sessionJoin>;
 
 export const openSessionInput = z.strictObject({
   machineId: z.uuid({ error: 'must be a UUID' }),
-  visitId: z.uuid({ error: 'must be a UUID' }).optional(),
+  visitId: z.optional(z.uuid({ error: 'must be a UUID' })),
   /** Sensitivity of the level used, µrad per division (0.02 mm/m = 20 µrad; JIS B 7510). */
-  levelDivisionUrad: z.number().finite().positive('must be positive').max(1000).default(20),
+  levelDivisionUrad: z._default(z.number().check(z.gt(0, 'must be positive'), z.lte(1000, 'must be at most 1000')), 20),
   /** Experts who coach and observers who watch, besides the technician who opens it. */
-  experts: z.array(z.uuid({ error: 'must be a user id' })).max(10).default([]),
-  observers: z.array(z.uuid({ error: 'must be a user id' })).max(20).default([]),
+  experts: z._default(z.array(z.uuid({ error: 'must be a user id' })).check(z.maxLength(10, 'at most 10')), []),
+  observers: z._default(z.array(z.uuid({ error: 'must be a user id' })).check(z.maxLength(20, 'at most 20')), []),
 });
 export type OpenSessionInput = z.infer<typeof openSessionInput>;
 

@@ -1,5 +1,5 @@
 import type { Server, Socket } from 'socket.io';
-import type { z } from 'zod';
+import type * as z from 'zod/mini';
 import type { Db } from '@/db/client';
 import { fromZod, toAppError } from '@/lib/errors';
 import { commands, type ClientToServerEvents, type CommandName, type CommandResults, type ServerToClientEvents, type SocketData } from '../contract';

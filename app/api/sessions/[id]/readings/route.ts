@@ -1,5 +1,5 @@
 import { NextResponse } from 'next/server';
-import { z } from 'zod';
+import * as z from 'zod/mini';
 import { db } from '@/db/client';
 import { requireActor } from '@/lib/auth/session';
 import { jsonBody, parseWith, route } from '@/lib/http';
@@ -9,7 +9,7 @@ import { sessionParams } from '../schema';
 
 type Ctx = { params: Promise<{ id: string }> };
 
-const body = readingSubmit.omit({ sessionId: true });
+const body = z.omit(readingSubmit, { sessionId: true });
 
 /** Records a reading over HTTP (the same command as the socket's `reading:submit`). */
 export const POST = route<Ctx>('reading', async (req, { params }) => {
