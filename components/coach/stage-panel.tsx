@@ -1,6 +1,7 @@
 import type { Verdict } from '@/lib/session/derive';
 import type { SessionState } from '@/lib/session/fold';
-import { SESSION_STAGES, STAGE_GUIDES, STANDING_CAUTIONS } from '@/lib/session/stages';
+import { SESSION_STAGES, STAGE_GUIDES } from '@/lib/session/stages';
+import { CautionList } from '@/components/session/caution-list';
 import { clock } from './format';
 
 const VERDICT_LOOK: Record<Verdict['status'], { text: string; cls: string }> = {
@@ -60,16 +61,7 @@ export function CoachCautions({ stageCautions }: { stageCautions: readonly strin
   return (
     <aside role="note" aria-label="Safety" className="rounded-lg border-l-8 border-bubble bg-bubble/10 p-2 text-sm leading-snug">
       <p className="font-bold">Several tonnes rest on these screws. Before advising a move:</p>
-      <ul className="mt-1 list-disc pl-5">
-        {stageCautions.map((c) => (
-          <li key={c} className="font-semibold">
-            {c}
-          </li>
-        ))}
-        {STANDING_CAUTIONS.map((c) => (
-          <li key={c}>{c}</li>
-        ))}
-      </ul>
+      <CautionList cautions={stageCautions} className="mt-1 list-disc pl-5" />
     </aside>
   );
 }

@@ -6,6 +6,7 @@ import type { UnitSystem } from '@/lib/leveling/units';
 import type { ReadingInput } from '@/lib/session/commands';
 import { currentRound, readingKey, stageChecklist, stagePlan, stageVerdict, stations, type PlannedReading, type Verdict } from '@/lib/session/derive';
 import { SESSION_STAGES, STAGE_GUIDES, STANDING_CAUTIONS, nextStage, type SessionStage } from '@/lib/session/stages';
+import { CautionList } from '@/components/session/caution-list';
 import { AddParticipant } from '@/components/session/add-participant';
 import { registerFieldWorker } from '@/components/session/register-field-worker';
 import { useLiveSession } from '@/components/session/use-live-session';
@@ -183,16 +184,7 @@ export function FieldView({ sessionId, unitSystem, machineLabel, tableMm }: Prop
           <summary className="min-h-10 cursor-pointer content-center font-bold">
             ⚠ Cautions ({guide.cautions.length + STANDING_CAUTIONS.length})
           </summary>
-          <ul className="mt-1 grid list-disc gap-1 pl-5 leading-snug">
-            {guide.cautions.map((c) => (
-              <li key={c} className="font-semibold">
-                {c}
-              </li>
-            ))}
-            {STANDING_CAUTIONS.map((c) => (
-              <li key={c}>{c}</li>
-            ))}
-          </ul>
+          <CautionList cautions={guide.cautions} className="mt-1 grid list-disc gap-1 pl-5 leading-snug" />
         </details>
 
         <details open className="rounded-lg bg-paper p-3">

@@ -25,30 +25,6 @@ export async function getSessionHeader(db: Db, { sessionId, organisationId }: { 
   return row ?? null;
 }
 
-export async function listSessionsByOrganisation(db: Db, { organisationId, limit = 50 }: { organisationId: string; limit?: number }) {
-  return db
-    .select({
-      id: levelingSessions.id,
-      state: levelingSessions.state,
-      createdAt: levelingSessions.createdAt,
-      lastSeq: levelingSessions.lastSeq,
-      machineId: machines.id,
-      machineModel: machines.model,
-      machineSerial: machines.serial,
-      siteName: sites.name,
-      customerName: customers.name,
-      technicianName: users.name,
-    })
-    .from(levelingSessions)
-    .innerJoin(machines, eq(machines.id, levelingSessions.machineId))
-    .innerJoin(sites, eq(sites.id, machines.siteId))
-    .innerJoin(customers, eq(customers.id, sites.customerId))
-    .innerJoin(users, eq(users.id, levelingSessions.technicianId))
-    .where(eq(levelingSessions.organisationId, organisationId))
-    .orderBy(desc(levelingSessions.createdAt))
-    .limit(limit);
-}
-
 /**
  * The sessions a user may see, newest first, with the user's standing in each: their part, or `reader` for the
  * organisation's reviewers and admins (`readsAll`), who see every session; everyone else sees only their own.
