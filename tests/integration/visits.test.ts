@@ -3,7 +3,7 @@ import path from 'node:path';
 import { randomUUID } from 'node:crypto';
 import { and, count, eq } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { instruments, visitInstruments, visits } from '@/db/schema';
+import { instruments, machines, screws, visitInstruments, visits } from '@/db/schema';
 import { addDays, todayUtc } from '@/lib/dates';
 import { makeOrganisation, testDb, type OrgFixture } from './helpers/fixtures';
 import { api, signInOverHttp } from './helpers/http';
@@ -351,5 +351,37 @@ describe('instruments for a visit', () => {
     const res = await api(`/api/visits/${id}/instruments`, { cookie: cookies.admin, method: 'POST', body: { instrumentId: instrumentIds.current } });
     expect(res.status).toBe(409);
     expect(res.json.code).toBe('conflict:visit');
+  });
+});
+
+describe('a leveling session opened for a visit', () => {
+  it('records the visit on the session and refuses a visit of another machine or another organisation', async () => {
+    const visitId = await schedule({ scheduledFor: inDays(2) });
+    const opened = await api('/api/sessions', { cookie: cookies.technician, method: 'POST', body: { machineId: org.machineId, visitId, experts: [org.users.expert.id] } });
+    expect(opened.status).toBe(201);
+    const sessionId = (opened.json.session as { id: string }).id;
+    const { listVisitSessions } = await import('@/db/queries/visits');
+    expect((await listVisitSessions(db, { visitId })).map((s) => s.id)).toEqual([sessionId]);
+
+    // A second machine of the same organisation: the visit is not for it.
+    const [first] = await db.select().from(machines).where(eq(machines.id, org.machineId));
+    const [second] = await db
+      .insert(machines)
+      .values({ ...first!, id: randomUUID(), serial: `${first!.serial}-B`, createdAt: undefined })
+      .returning();
+    await db.insert(screws).values((await db.select().from(screws).where(eq(screws.machineId, org.machineId))).map((sc) => ({ ...sc, id: randomUUID(), machineId: second!.id })));
+    const wrongMachine = await api('/api/sessions', { cookie: cookies.technician, method: 'POST', body: { machineId: second!.id, visitId } });
+    expect(wrongMachine.status).toBe(400);
+    expect(wrongMachine.json).toMatchObject({ field: 'visitId' });
+
+    const theirVisit = await api('/api/visits', { cookie: cookies.outsider, method: 'POST', body: { ...body(), machineId: other.machineId, technicianId: other.users.technician.id, expertId: other.users.expert.id } });
+    expect(theirVisit.status).toBe(201);
+    const foreign = await api('/api/sessions', {
+      cookie: cookies.technician,
+      method: 'POST',
+      body: { machineId: org.machineId, visitId: (theirVisit.json.visit as { id: string }).id },
+    });
+    expect(foreign.status).toBe(404);
+    expect(foreign.json).toMatchObject({ code: 'not_found:visit', field: 'visitId' });
   });
 });
