@@ -12,6 +12,7 @@ import { STAGE_GUIDES } from '@/lib/session/stages';
 import { AddParticipant } from '@/components/session/add-participant';
 import { useLiveSession, type Link } from '@/components/session/use-live-session';
 import type { SceneMove } from '@/components/viewer/tilt-view';
+import { ChainCheck } from './chain-check';
 import { BaseNumbers } from './base-numbers';
 import { EndSession } from './end-session';
 import { clock, type Standing } from './format';
@@ -154,6 +155,7 @@ export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabe
           <span role="status" data-testid="link-state" data-link={link} className={`rounded-full px-4 py-2 font-bold ${look.cls}`}>
             {look.text}
           </span>
+          <ChainCheck sessionId={sessionId} />
           {canEnd && <EndSession onEnd={async (reason) => void (await send('session:end', reason ? { reason } : {}))} />}
         </div>
         {STANDING_NOTE[standing] && <p className="w-full rounded-lg bg-steel/10 px-3 py-2 text-sm">{STANDING_NOTE[standing]}</p>}

@@ -135,6 +135,10 @@ test('three people level a machine together, and each sees every event once and 
   for (const [who, p] of [['technician', tech.page], ['expert', expert.page], ['observer', observer.page]] as const) {
     await expect(p.getByTestId('seen-seqs'), `${who} saw every event once, in order`).toHaveText(all);
   }
+  // The observer asks the server to recompute the hash chain: intact, every event counted.
+  await observer.page.getByRole('button', { name: 'Verify the record' }).click();
+  await expect(observer.page.getByTestId('chain-check').getByRole('status')).toContainText(`${events.length} events, chain intact`);
+
   const final = foldEvents(events);
   expect(final.stage).toBe('lock-as-left');
   expect(final.moves.length).toBeGreaterThan(0);

@@ -353,3 +353,18 @@ describe('socket commands by standing', () => {
     else expect(ack.ok).toBe(true);
   });
 });
+
+describe('GET /api/sessions/:id/verify', () => {
+  it('recomputes the chain from what is stored: every event counted and the head the session row holds', async () => {
+    const res = await api(`/api/sessions/${sessionId}/verify`, { cookie: cookies.reviewer });
+    expect(res.status).toBe(200);
+    const [row] = await db.select({ lastSeq: levelingSessions.lastSeq, lastHash: levelingSessions.lastHash }).from(levelingSessions).where(eq(levelingSessions.id, sessionId));
+    expect(res.json.verdict).toEqual({ ok: true, count: row!.lastSeq, head: row!.lastHash });
+  });
+  it('401 signed out, 403 for someone of the organisation who takes no part, 404 for another organisation', async () => {
+    expect((await api(`/api/sessions/${sessionId}/verify`)).status).toBe(401);
+    expect((await api(`/api/sessions/${sessionId}/verify`, { cookie: cookies.outsider })).status).toBe(403);
+    expect((await api(`/api/sessions/${sessionId}/verify`, { cookie: cookies.otherAdmin })).status).toBe(404);
+    expect((await api(`/api/sessions/not-a-uuid/verify`, { cookie: cookies.tech })).json).toMatchObject({ status: 400, field: 'id' });
+  });
+});
