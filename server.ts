@@ -18,7 +18,7 @@ const handle = app.getRequestHandler();
 const httpServer = createServer((req, res) => void handle(req, res));
 const realtime = attachRealtime(httpServer, { db: db(), secret: config.NEXTAUTH_SECRET });
 // Works demo sessions (a virtual seed set) through the same service as a person's commands.
-const virtualTechnician = startVirtualTechnician({ db: db() });
+const virtualTechnician = startVirtualTechnician({ db: db(), isWatched: realtime.isWatched });
 const stopReminders = startReminderTimer(db(), config.REMINDER_INTERVAL_MINUTES);
 
 if (dev) {

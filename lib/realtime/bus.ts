@@ -51,3 +51,28 @@ export function setUserSocketEnder(fn: UserSocketEnder | undefined): void {
 export function endUserSockets(userId: string): void {
   (globalThis as EnderHolder)[enderKey]?.(userId);
 }
+
+/** In-process listeners to a socket joining a session's room (the virtual technician wakes when someone watches). */
+type JoinListener = (sessionId: string, userId: string) => void;
+const joinKey = Symbol.for('levelwire.joinListeners');
+type JoinHolder = { [joinKey]?: Set<JoinListener> };
+function joinListeners(): Set<JoinListener> {
+  const g = globalThis as JoinHolder;
+  g[joinKey] ??= new Set();
+  return g[joinKey];
+}
+
+export function onSessionJoined(fn: JoinListener): () => void {
+  joinListeners().add(fn);
+  return () => joinListeners().delete(fn);
+}
+
+export function sessionJoined(sessionId: string, userId: string): void {
+  for (const fn of joinListeners()) {
+    try {
+      fn(sessionId, userId);
+    } catch {
+      // a listener's failure must not fail the join
+    }
+  }
+}

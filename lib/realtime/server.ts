@@ -49,6 +49,11 @@ export function attachRealtime(httpServer: HttpServer, deps: RealtimeDeps & { se
 
   return {
     io,
+    /** Whether anyone besides `exceptUserId` has a socket in the session's room, in any process (with the adapter). */
+    async isWatched(sessionId: string, exceptUserId: string): Promise<boolean> {
+      const sockets = await io.in(sessionRoom(sessionId)).fetchSockets();
+      return sockets.some((s) => s.data.actor && s.data.actor.id !== exceptUserId);
+    },
     async close() {
       setBroadcaster(undefined);
       setUserSocketEnder(undefined);

@@ -12,7 +12,7 @@ import { getSessionRunner, listLiveDemoSessionIds } from '@/db/queries/sessions'
 import { actorFromUserId, type Actor } from '@/lib/auth/actor';
 import { AppError } from '@/lib/errors';
 import { createVirtualMachine, readingToSlopeUrad, reversalCheck, seededRandom, type VirtualMachine } from '@/lib/leveling';
-import { onStoredEvent } from '@/lib/realtime/bus';
+import { onSessionJoined, onStoredEvent } from '@/lib/realtime/bus';
 import type { ReadingSubmit } from './commands';
 import {
   adjustStageOf,
@@ -284,6 +284,12 @@ export type VirtualTechnicianOptions = {
   log?: (message: string, err?: unknown) => void;
   /** Pick up the live demo sessions already in the database (default true; tests that share a database turn it off). */
   resume?: boolean;
+  /**
+   * Whether someone besides the virtual technician is watching the session. When given, it works only while
+   * someone watches (a newcomer who opens the demo sees it from where it stands, not finished without them) and
+   * wakes when someone joins. Answers to moves are made regardless.
+   */
+  isWatched?: (sessionId: string, technicianId: string) => Promise<boolean>;
 };
 
 type Worker = { running: boolean; again: boolean; done: Promise<void>; actor?: Actor; rig?: VirtualRig };
@@ -362,6 +368,7 @@ export function startVirtualTechnician(options: VirtualTechnicianOptions) {
       syncRig(w.rig, state);
       const action = nextVirtualAction(state);
       if (!action) return;
+      if (action.kind !== 'answer' && options.isWatched && !(await options.isWatched(sessionId, w.actor.id))) return; // a join wakes it
       const key = actionKey(action);
       const pause = between(action.kind === 'answer' ? answerDelay : stepDelay);
       if (pause <= 0 || waitedFor === key) {
@@ -413,6 +420,7 @@ export function startVirtualTechnician(options: VirtualTechnicianOptions) {
     }
     kick(event.sessionId);
   });
+  const unsubscribeJoins = onSessionJoined((sessionId) => kick(sessionId));
 
   const resumed =
     options.resume === false
@@ -435,6 +443,7 @@ export function startVirtualTechnician(options: VirtualTechnicianOptions) {
     async stop(): Promise<void> {
       stopped = true;
       unsubscribe();
+      unsubscribeJoins();
       for (const wake of [...sleepers]) wake();
       await resumed;
       await Promise.all([...workers.values()].map((w) => w.done));

@@ -6,7 +6,7 @@ import { listEventsBySession } from '@/db/queries/events';
 import { openSession } from '@/db/queries/sessions';
 import { ensureVirtualTechnician, openDemoSession } from '@/db/seed';
 import type { Actor } from '@/lib/auth/actor';
-import { broadcast } from '@/lib/realtime/bus';
+import { broadcast, sessionJoined } from '@/lib/realtime/bus';
 import { recommendedMoves } from '@/lib/session/advice';
 import { stageVerdict } from '@/lib/session/derive';
 import { foldEvents } from '@/lib/session/fold';
@@ -142,4 +142,26 @@ describe('the virtual technician', () => {
     await runner.idle();
     expect(await listEventsBySession(db, { sessionId })).toHaveLength(count);
   });
+
+  it('given a way to see who is watching, works only while someone watches, and wakes when someone joins', async () => {
+    await runner.stop(); // the shared runner would work every demo; this one alone decides here
+    let watched = false;
+    const watchedRunner = startVirtualTechnician({ db, answerDelayMs: [0, 0], stepDelayMs: [0, 0], resume: false, isWatched: async () => watched });
+    try {
+      const sessionId = await openDemo();
+      await watchedRunner.idle();
+      const opened = (await listEventsBySession(db, { sessionId })).length;
+      expect((await stateOf(sessionId)).stage).toBe('prepare');
+      watched = true;
+      sessionJoined(sessionId, expert.id);
+      await watchedRunner.idle();
+      const state = await stateOf(sessionId);
+      expect(state.seq).toBeGreaterThan(opened);
+      expect(state.stage).not.toBe('prepare');
+      await endSession(db, expert, { id: randomUUID(), sessionId });
+    } finally {
+      await watchedRunner.stop();
+    }
+  });
 });
+

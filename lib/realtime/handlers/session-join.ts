@@ -1,5 +1,6 @@
 import { listEventsBySession } from '@/db/queries/events';
 import { accessSession } from '@/lib/session/service';
+import { sessionJoined } from '../bus';
 import { sessionRoom, type Presence } from '../contract';
 import { defineHandler, type IoServer } from './define';
 
@@ -34,6 +35,7 @@ export const sessionJoinHandler = defineHandler('session:join', async ({ socket,
   if (!socket.data.sessions.includes(sessionId)) socket.data.sessions.push(sessionId);
   const events = await listEventsBySession(deps.db, { sessionId, afterSeq });
   void announcePresence(io, sessionId);
+  sessionJoined(sessionId, socket.data.actor.id);
   return { events, presence: await presenceOf(io, sessionId) };
 });
 
