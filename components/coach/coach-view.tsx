@@ -80,7 +80,7 @@ function noMovesReason(state: SessionState, model: BaseModel | null, verdict: Re
 
 /** The expert's screen: the tilt view, the engine's moves, the measures by round, the stage, presence and notes. */
 export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabel, technicianName, fallbackScrews, table, travelMm, mayAddPeople }: Props) {
-  const { events, state, link, presence, outbox, rejected, dismissRejected, send, seen } = useLiveSession(sessionId);
+  const { events, state, link, presence, outbox, rejected, dismissRejected, send, seen } = useLiveSession(sessionId, selfId);
   const [sending, setSending] = useState(false);
   const screws = state.screws.length > 0 ? state.screws : fallbackScrews;
   const travel = state.travelMm ?? travelMm;

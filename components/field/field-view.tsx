@@ -22,6 +22,8 @@ import { TopView } from './top-view';
 
 type Props = {
   sessionId: string;
+  /** The signed-in technician: the outbox sends only their own entries. */
+  userId: string;
   unitSystem: UnitSystem;
   machineLabel: string;
   /** The table's size, for the top view (length along X, width along Y), when the machine record has it. */
@@ -41,8 +43,8 @@ type Spot = { axis: 'x' | 'y'; positionMm: number };
  * the stage with its guide, cautions, checklist, the readings it asks for on a top view, the entry form, and notes
  * and photos. Everything typed goes through the outbox, so the screen keeps working without a link.
  */
-export function FieldView({ sessionId, unitSystem, machineLabel, tableMm }: Props) {
-  const { events, state, link, outbox, rejected, dismissRejected, send, seen } = useLiveSession(sessionId);
+export function FieldView({ sessionId, userId, unitSystem, machineLabel, tableMm }: Props) {
+  const { events, state, link, outbox, rejected, dismissRejected, send, seen } = useLiveSession(sessionId, userId);
 
   useEffect(() => {
     void registerFieldWorker();

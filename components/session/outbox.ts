@@ -8,6 +8,8 @@ import type { SessionEvent } from '@/lib/session/events';
 export type QueuedCommand = {
   id: string;
   sessionId: string;
+  /** Who made it: on a shared device, only its maker's signed-in views send it (never under another name). */
+  userId: string;
   name: AppendingCommand;
   payload: Record<string, unknown> & { id: string; sessionId: string };
   queuedAt: number;
@@ -37,10 +39,25 @@ export async function enqueue(cmd: QueuedCommand): Promise<void> {
   await (await database()).put('outbox', cmd);
 }
 
-/** A session's queued commands in the order they were made. */
-export async function queued(sessionId: string): Promise<QueuedCommand[]> {
+/** A session's commands queued by one user, in the order they were made. */
+export async function queued(sessionId: string, userId: string): Promise<QueuedCommand[]> {
   const db = await database();
-  return db.getAllFromIndex('outbox', 'bySession', IDBKeyRange.bound([sessionId, 0], [sessionId, Number.MAX_SAFE_INTEGER]));
+  const all = await db.getAllFromIndex('outbox', 'bySession', IDBKeyRange.bound([sessionId, 0], [sessionId, Number.MAX_SAFE_INTEGER]));
+  return all.filter((c) => c.userId === userId);
+}
+
+/** How many commands on this device wait for one user, over every session (asked before signing out). */
+export async function pendingFor(userId: string): Promise<number> {
+  return (await (await database()).getAll('outbox')).filter((c) => c.userId === userId).length;
+}
+
+/**
+ * Forgets what this device keeps for reading sessions without a network (cached logs and field pages), as a user
+ * signs out; the outbox stays, each command tagged with its maker, and goes out when they sign in here again.
+ */
+export async function forgetLocalCopies(): Promise<void> {
+  await (await database()).clear('logs');
+  if ('caches' in window) for (const name of await caches.keys()) if (name.startsWith('levelwire-field-')) await caches.delete(name);
 }
 
 export async function dequeue(id: string): Promise<void> {

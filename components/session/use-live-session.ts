@@ -46,7 +46,7 @@ type CommandBody = Record<string, unknown>;
  * outbox only when the server acknowledges it (stored, or a duplicate of one stored) or refuses it (shown in
  * `rejected`). Ids are made here, so a resend after a lost acknowledgement stores nothing twice.
  */
-export function useLiveSession(sessionId: string) {
+export function useLiveSession(sessionId: string, userId: string) {
   const queryClient = useQueryClient();
   const key = useMemo(() => ['session', sessionId, 'events'] as const, [sessionId]);
   const { data: events = [], error } = useQuery({
@@ -78,7 +78,7 @@ export function useLiveSession(sessionId: string) {
   /** A flush was asked for while one ran: run again when it ends, so a command queued meanwhile does not wait. */
   const flushAgain = useRef(false);
 
-  const refreshOutbox = useCallback(async () => setOutbox(await queued(sessionId)), [sessionId]);
+  const refreshOutbox = useCallback(async () => setOutbox(await queued(sessionId, userId)), [sessionId, userId]);
 
   const flush = useCallback(async () => {
     const socket = socketRef.current;
@@ -90,7 +90,7 @@ export function useLiveSession(sessionId: string) {
     flushing.current = true;
     flushAgain.current = false;
     try {
-      for (const cmd of await queued(sessionId)) {
+      for (const cmd of await queued(sessionId, userId)) {
         if (!socket.connected) break;
         let ack: Ack<{ seq: number; duplicate: boolean }>;
         try {
@@ -111,7 +111,7 @@ export function useLiveSession(sessionId: string) {
       await refreshOutbox();
     }
     if (flushAgain.current && socketRef.current?.connected) void flush();
-  }, [refreshOutbox, sessionId]);
+  }, [refreshOutbox, sessionId, userId]);
 
   useEffect(() => {
     void refreshOutbox();
@@ -190,12 +190,12 @@ export function useLiveSession(sessionId: string) {
     async (name: AppendingCommand, body: CommandBody): Promise<string> => {
       const id = typeof body.id === 'string' ? body.id : crypto.randomUUID();
       const payload = { ...body, id, sessionId, clientTs: new Date().toISOString() };
-      await enqueue({ id, sessionId, name, payload, queuedAt: nextQueuedAt(), attempts: 0 });
+      await enqueue({ id, sessionId, userId, name, payload, queuedAt: nextQueuedAt(), attempts: 0 });
       await refreshOutbox();
       void flush();
       return id;
     },
-    [flush, refreshOutbox, sessionId],
+    [flush, refreshOutbox, sessionId, userId],
   );
 
   const dismissRejected = useCallback((id: string) => setRejected((r) => r.filter((x) => x.id !== id)), []);

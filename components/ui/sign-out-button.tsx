@@ -10,8 +10,23 @@ export function SignOutButton() {
   const [busy, setBusy] = useState(false);
   async function signOut() {
     setBusy(true);
-    const { csrfToken } = (await fetch('/api/auth/csrf').then((r) => r.json())) as { csrfToken: string };
-    await fetch('/api/auth/signout', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams({ csrfToken, json: 'true' }) });
+    // What this device keeps for working without a network (loaded only now, not with every page).
+    const local = await import('@/components/session/outbox').catch(() => null);
+    const me = local ? await fetch('/api/me').then((r) => (r.ok ? (r.json() as Promise<{ me: { id: string } }>) : null)).catch(() => null) : null;
+    const waiting = local && me ? await local.pendingFor(me.me.id).catch(() => 0) : 0;
+    if (waiting > 0 && !window.confirm(`${waiting} ${waiting === 1 ? 'entry has' : 'entries have'} not reached the server yet. They stay on this device and go out when you sign in here again. Sign out anyway?`)) {
+      setBusy(false);
+      return;
+    }
+    try {
+      const { csrfToken } = (await fetch('/api/auth/csrf').then((r) => r.json())) as { csrfToken: string };
+      await fetch('/api/auth/signout', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams({ csrfToken, json: 'true' }) });
+    } catch {
+      setBusy(false);
+      window.alert('No connection to the server: sign out once the connection is back.');
+      return;
+    }
+    await local?.forgetLocalCopies().catch(() => undefined);
     window.location.assign('/sign-in');
   }
   return (

@@ -1,8 +1,8 @@
 import { expect, test, type Page } from '@playwright/test';
-import { DEMO_MACHINE_SERIAL } from '../../db/seed';
+import { DEMO_MACHINE_SERIAL, DEMO_PASSWORD } from '../../db/seed';
 import type { SessionEvent } from '../../lib/session/events';
 import { FieldPage } from './pages/field-page';
-import { signedIn } from './pages/personas';
+import { emailOf, signedIn } from './pages/personas';
 
 /** The ids of the commands waiting in the field view's IndexedDB outbox, oldest first. */
 async function outboxIds(page: Page): Promise<string[]> {
@@ -97,5 +97,66 @@ test('readings typed offline survive a reload and are stored once each, in entry
   // Seqs strictly increasing with no gaps: nothing stored twice or lost between them.
   expect(events.map((e) => e.seq)).toEqual(events.map((_, i) => i + 1));
 
+  await tech.context.close();
+});
+
+/**
+ * A shared tablet: a reading typed offline stays queued under its maker. Another person signed in on the same device
+ * never sends it; its maker, back on the device, does, once.
+ */
+test('a reading left queued by one person is never sent under another’s name on a shared device', async ({ browser }) => {
+  const tech = await signedIn(browser, 'technician', { width: 390, height: 844 });
+  const page = tech.page;
+  const { rows } = (await (await page.request.get(`/api/machines?q=${DEMO_MACHINE_SERIAL}`)).json()) as { rows: { id: string; serial: string }[] };
+  const { people } = (await (await page.request.get('/api/people?role=expert')).json()) as { people: { id: string; name: string }[] };
+  const ewan = people.find((p) => p.name === 'Ewan Marsh')!;
+  const opened = await page.request.post('/api/sessions', { data: { machineId: rows.find((m) => m.serial === DEMO_MACHINE_SERIAL)!.id, experts: [ewan.id] } });
+  const sessionId = ((await opened.json()) as { session: { id: string } }).session.id;
+  const readingsStored = async () => {
+    const res = await browser.newContext().then(async (c) => {
+      const p = await c.newPage();
+      await p.goto('/sign-in');
+      await p.getByLabel('E-mail').fill(emailOf('reviewer'));
+      await p.getByLabel('Password').fill(DEMO_PASSWORD);
+      await p.getByRole('button', { name: 'Sign in' }).click();
+      await p.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
+      const body = (await (await p.request.get(`/api/sessions/${sessionId}/events`)).json()) as { events: SessionEvent[] };
+      await c.close();
+      return body;
+    });
+    return res.events.filter((e) => e.type === 'reading:recorded');
+  };
+  const signInHere = async (role: 'technician' | 'expert') => {
+    await tech.context.clearCookies();
+    await page.goto('/sign-in');
+    await page.getByLabel('E-mail').fill(emailOf(role));
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
+  };
+
+  const field = new FieldPage(page);
+  await field.open(sessionId);
+  await expect(field.linkState('live')).toBeVisible();
+  await tech.context.setOffline(true);
+  await expect(field.linkState('offline')).toBeVisible();
+  await field.record('x', 'Middle', '1');
+  await expect(field.outboxCount).toHaveText('1');
+
+  // The technician's sign-in ends while the entry waits (the device changes hands); the network comes back.
+  await tech.context.clearCookies();
+  await tech.context.setOffline(false);
+  await signInHere('expert');
+  await page.goto(`/sessions/${sessionId}/coach`);
+  await expect(page.locator('[data-testid="link-state"][data-link="live"]')).toBeVisible(); // the expert's view runs and is connected
+  await page.waitForTimeout(2000);
+  expect(await readingsStored()).toHaveLength(0);
+
+  // The technician back on the device: the queued reading goes out under their name, once.
+  await signInHere('technician');
+  await field.open(sessionId);
+  await expect(field.outboxCount).toHaveText('0', { timeout: 20_000 });
+  const stored = await readingsStored();
+  expect(stored.map((e) => [(e.payload as { divisions: number }).divisions, e.actorRole])).toEqual([[1, 'technician']]);
   await tech.context.close();
 });

@@ -16,6 +16,7 @@ export default async function FieldPage({ params }: { params: Promise<{ id: stri
   return (
     <FieldView
       sessionId={session.id}
+      userId={actor.id}
       unitSystem={actor.unitSystem}
       machineLabel={model}
       tableMm={tableLengthMm && tableWidthMm ? { lengthMm: tableLengthMm, widthMm: tableWidthMm } : null}
