@@ -13,31 +13,45 @@ export function setBroadcaster(fn: Broadcaster | undefined): void {
   (globalThis as Holder)[key] = fn;
 }
 
+/**
+ * In-process listeners, on globalThis like the broadcaster (one set per process, whichever bundle asks). A listener
+ * that throws does not stop the others, nor the action that called them.
+ */
+function listenerSet<A extends unknown[]>(name: string) {
+  const setKey = Symbol.for(`levelwire.${name}`);
+  const holder = globalThis as { [k: symbol]: Set<(...args: A) => void> | undefined };
+  const set = () => (holder[setKey] ??= new Set());
+  return {
+    on(fn: (...args: A) => void): () => void {
+      set().add(fn);
+      return () => set().delete(fn);
+    },
+    emit(...args: A): void {
+      for (const fn of set()) {
+        try {
+          fn(...args);
+        } catch {
+          // one listener's failure must not stop the others, nor the stored event's broadcast
+        }
+      }
+    },
+  };
+}
+
+const storedEvents = listenerSet<[SessionEvent]>('eventListeners');
+const joins = listenerSet<[sessionId: string, userId: string]>('joinListeners');
+
 export function broadcast(event: SessionEvent): void {
   (globalThis as Holder)[key]?.(event);
-  for (const listener of listeners()) {
-    try {
-      listener(event);
-    } catch {
-      // a listener's failure must not undo a stored event's broadcast
-    }
-  }
+  storedEvents.emit(event);
 }
 
-/** In-process listeners to every stored event (the virtual technician of demo sessions listens here). */
-const listenersKey = Symbol.for('levelwire.eventListeners');
-type ListenersHolder = { [listenersKey]?: Set<Broadcaster> };
-function listeners(): Set<Broadcaster> {
-  const g = globalThis as ListenersHolder;
-  g[listenersKey] ??= new Set();
-  return g[listenersKey];
-}
+/** Calls `fn` after each stored event is broadcast in this process (the virtual technician listens here). */
+export const onStoredEvent = storedEvents.on;
 
-/** Calls `fn` after each stored event is broadcast in this process; returns the function that stops it. */
-export function onStoredEvent(fn: Broadcaster): () => void {
-  listeners().add(fn);
-  return () => listeners().delete(fn);
-}
+/** Calls `fn` when a socket of this process joins a session's room (the virtual technician wakes when someone watches). */
+export const onSessionJoined = joins.on;
+export const sessionJoined = joins.emit;
 
 /** Ends every live socket of one user (after a deactivation or a role change); registered by server.ts like the broadcaster. */
 type UserSocketEnder = (userId: string) => void;
@@ -50,29 +64,4 @@ export function setUserSocketEnder(fn: UserSocketEnder | undefined): void {
 
 export function endUserSockets(userId: string): void {
   (globalThis as EnderHolder)[enderKey]?.(userId);
-}
-
-/** In-process listeners to a socket joining a session's room (the virtual technician wakes when someone watches). */
-type JoinListener = (sessionId: string, userId: string) => void;
-const joinKey = Symbol.for('levelwire.joinListeners');
-type JoinHolder = { [joinKey]?: Set<JoinListener> };
-function joinListeners(): Set<JoinListener> {
-  const g = globalThis as JoinHolder;
-  g[joinKey] ??= new Set();
-  return g[joinKey];
-}
-
-export function onSessionJoined(fn: JoinListener): () => void {
-  joinListeners().add(fn);
-  return () => joinListeners().delete(fn);
-}
-
-export function sessionJoined(sessionId: string, userId: string): void {
-  for (const fn of joinListeners()) {
-    try {
-      fn(sessionId, userId);
-    } catch {
-      // a listener's failure must not fail the join
-    }
-  }
 }
