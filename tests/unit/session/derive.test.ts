@@ -2,8 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { evaluate } from 'mathjs';
 import type { SessionEvent, SessionScrew } from '@/lib/session/events';
 import { foldEvents } from '@/lib/session/fold';
-import { baseModelOf, recommendedMoves } from '@/lib/session/advice';
-import { currentRound, moveOfTurns, stagePlan, stageVerdict, stations } from '@/lib/session/derive';
+import { createVirtualMachine, MEASURES, nominalResponse } from '@/lib/leveling';
+import { baseModelOf, learnedResponse, recommendedMoves } from '@/lib/session/advice';
+import { currentRound, engineScrews, moveOfTurns, stagePlan, stageVerdict, stations } from '@/lib/session/derive';
 import { jamItem, padItem } from '@/lib/session/stages';
 
 let seq = 0;
@@ -122,5 +123,37 @@ describe('base model and recommended moves', () => {
     const m = moveOfTurns(screws[0]!, 0.3);
     expect(m.raiseUm).toBe(evaluate('0.3 * 2.5 mm to um').toNumber('um'));
     expect(m.degrees).toBeCloseTo(evaluate('0.3 * 360'), 9);
+  });
+});
+
+describe('learning the machine’s response from the session’s own rounds', () => {
+  it('after one round, predicts that round’s tilt change closer than the footprint’s nominal response does', () => {
+    // A simulated base whose screws lift ±20 % off nominal, with backlash (the engine's virtual machine, seeded).
+    const corners = screws.filter((sc) => sc.kind === 'corner');
+    const vm = createVirtualMachine({ seed: 7, screws: engineScrews(corners), travelMm: 500, divisionUrad: 20, asFound: { tiltXUrad: 150, tiltYUrad: -90, twistUrad: 0, bowUrad: 0 } });
+    seq = 0;
+    const events: SessionEvent[] = [ev('session:opened', { machineId: 'm', levelDivisionUrad: 20, travelMm: 500, tolerances, screws: corners }), stage('rough-level')];
+    const read = () => (['x', 'y'] as const).map((axis) => level('rough-level', axis, 0, vm.readLevel(axis, 0, 0) * 20));
+    events.push(...read());
+    const moves = recommendedMoves(foldEvents(events));
+    expect(moves.length).toBeGreaterThan(0);
+    for (const m of moves) {
+      vm.applyMove(m.id, m.raiseUm);
+      events.push(ev('move:sent', { moveId: `mv-${m.id}`, screwId: m.id, stage: 'rough-level', raiseUm: m.raiseUm, turns: m.turns, degrees: m.degrees, recommended: true }, 'expert'));
+      events.push(ev('move:answered', { moveId: `mv-${m.id}`, outcome: 'done', turns: m.turns, raiseUm: m.raiseUm }));
+    }
+    events.push(...read());
+    const s = foldEvents(events);
+    const slope = (axis: 'x' | 'y', i: number) => s.readings.filter((r) => r.kind === 'level' && r.axis === axis)[i]!;
+    const observed = [0, 1].map((row) => {
+      const axis = row === 0 ? 'x' : 'y';
+      return (slope(axis, 1) as { slopeUrad: number }).slopeUrad - (slope(axis, 0) as { slopeUrad: number }).slopeUrad;
+    });
+    const predict = (response: number[][], row: number) => corners.reduce((sum, sc, j) => sum + response[row]![j]! * (moves.find((m) => m.id === sc.id)?.raiseUm ?? 0), 0);
+    const nominal = nominalResponse(engineScrews(corners), 500);
+    const learned = learnedResponse(s)!;
+    const error = (r: number[][]) => Math.hypot(predict(r, MEASURES.indexOf('tiltXUrad')) - observed[0]!, predict(r, MEASURES.indexOf('tiltYUrad')) - observed[1]!);
+    expect(error(nominal)).toBeGreaterThan(5); // the simulated screws do answer differently from nominal
+    expect(error(learned)).toBeLessThan(error(nominal) / 2);
   });
 });
