@@ -15,6 +15,17 @@ function shown(series: Series, value: number, system: UnitSystem): number {
 const unitOf = (series: Series, system: UnitSystem) => (series.unit === 'um' ? (system === 'inch' ? 'in' : 'µm') : system === 'inch' ? 'in/10 in' : 'mm/m');
 const places = (series: Series, system: UnitSystem) => (system === 'inch' ? (series.unit === 'um' ? 4 : 5) : series.unit === 'um' ? 1 : 3);
 
+/** Labels of the tolerance lines and zero; when the band is too narrow to label each line apart, one ± label. */
+function axisLabels(signed: boolean, tol: number, y: (v: number) => number, fmt: (v: number) => string): { y: number; text: string }[] {
+  const apart = Math.abs(y(0) - y(tol)) >= 13;
+  if (!apart) return [{ y: signed ? y(0) : y(tol), text: signed ? `±${fmt(tol)}` : fmt(tol) }];
+  return [
+    { y: y(tol), text: `${signed ? '+' : ''}${fmt(tol)}` },
+    { y: y(0), text: '0' },
+    ...(signed ? [{ y: y(-tol), text: fmt(-tol) }] : []),
+  ];
+}
+
 function Chart({ series, system, t0, t1 }: { series: Series; system: UnitSystem; t0: number; t1: number }) {
   const pts = series.points;
   const tol = shown(series, series.tolerance, system);
@@ -44,9 +55,9 @@ function Chart({ series, system, t0, t1 }: { series: Series; system: UnitSystem;
         {series.signed && <line x1={PAD.left} x2={W - PAD.right} y1={y(-tol)} y2={y(-tol)} stroke="#1b7a3d" strokeDasharray="4 3" />}
         <line x1={PAD.left} x2={W - PAD.right} y1={y(0)} y2={y(0)} stroke="#4a525c" strokeWidth={0.8} />
         <line x1={PAD.left} x2={PAD.left} y1={PAD.top} y2={H - PAD.bottom} stroke="#4a525c" strokeWidth={0.8} />
-        {[tol, 0, ...(series.signed ? [-tol] : [])].map((v) => (
-          <text key={v} x={PAD.left - 4} y={y(v) + 4} textAnchor="end" fontSize={12} fill="#4a525c" className="tabular">
-            {v === 0 ? '0' : `${v > 0 && series.signed ? '+' : ''}${fmt(v)}`}
+        {axisLabels(series.signed, tol, y, fmt).map((l) => (
+          <text key={l.text} x={PAD.left - 4} y={l.y + 4} textAnchor="end" fontSize={12} fill="#4a525c" className="tabular">
+            {l.text}
           </text>
         ))}
         {pts.length > 1 && <polyline points={pts.map((p, i) => `${x(p.at)},${y(values[i]!)}`).join(' ')} fill="none" stroke="#2b3440" strokeWidth={1.5} />}
