@@ -10,6 +10,7 @@ import { CautionList } from '@/components/session/caution-list';
 import { AddParticipant } from '@/components/session/add-participant';
 import { registerFieldWorker } from '@/components/session/register-field-worker';
 import { useLiveSession } from '@/components/session/use-live-session';
+import { FinishSession } from './finish-session';
 import { answeredInOutbox, keyOfInput, pendingChecks, pendingNotes, pendingReadings, pendingStage, placementOf } from './field-logic';
 import { LinkStrip } from './link-strip';
 import { MoveCard } from './move-card';
@@ -352,6 +353,14 @@ export function FieldView({ sessionId, userId, unitSystem, machineLabel, tableMm
               </button>
             )}
           </div>
+        )}
+        {!next && !ended && (
+          <FinishSession
+            verdict={verdict}
+            waiting={outbox.length}
+            online={link === 'live'}
+            onFinish={async (reason) => void (await send('session:end', reason ? { reason } : {}))}
+          />
         )}
       </section>
 

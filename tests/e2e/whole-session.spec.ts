@@ -128,6 +128,12 @@ test('three people level a machine together, and each sees every event once and 
   await observer.page.getByRole('button', { name: 'Post note' }).click();
   for (const p of [tech.page, expert.page]) await expect(p.getByTestId('note').filter({ hasText: 'looks good' })).toBeVisible();
 
+  // The technician finishes the session; everyone sees it ended.
+  await field.getByRole('button', { name: /^Finish the session/ }).click();
+  await field.getByRole('button', { name: 'Finish', exact: true }).click();
+  await expect(field.getByText('This session has ended')).toBeVisible();
+  for (const p of [expert.page, observer.page]) await expect(p.getByRole('status').filter({ hasText: 'Session ended at' })).toBeVisible();
+
   // Every party applied every stored event once, in seq order.
   const events = await log();
   const all = events.map((e) => e.seq).join(',');
@@ -141,6 +147,7 @@ test('three people level a machine together, and each sees every event once and 
 
   const final = foldEvents(events);
   expect(final.stage).toBe('lock-as-left');
+  expect(final.ended).not.toBeNull();
   expect(final.moves.length).toBeGreaterThan(0);
   expect(final.moves.every((m) => m.status === 'done' && m.recommended)).toBe(true);
   test.info().annotations.push({ type: 'rounds', description: JSON.stringify(rounds) });
