@@ -222,7 +222,7 @@ export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabe
         />
         {canSendMoves && <ManualMove screws={screws} unitSystem={unitSystem} busy={moveBusy} onSend={sendMove} />}
         <MovesList moves={state.moves} screws={screws} unitSystem={unitSystem} />
-        <PresencePanel presence={presence} participants={state.participants} selfId={selfId} />
+        <PresencePanel presence={presence} participants={state.participants} selfId={selfId} simulated={state.virtualSeed !== null} />
         {mayAddPeople && !ended && <AddParticipant sessionId={sessionId} participants={state.participants} />}
         <NotesPanel notes={state.notes} participants={state.participants} selfId={selfId} canPost={canPost} onPost={async (text) => void (await send('note:post', { text }))} />
         <CoachCautions stageCautions={STAGE_GUIDES[state.stage].cautions} />

@@ -11,9 +11,11 @@ export function quality(rttMs: number | null): { text: string; cls: string } {
 }
 
 /** Who is connected now (since when, and how well), and the participants who are not. */
-export function PresencePanel({ presence, participants, selfId }: { presence: Presence[]; participants: ParticipantState[]; selfId: string }) {
+export function PresencePanel({ presence, participants, selfId, simulated }: { presence: Presence[]; participants: ParticipantState[]; selfId: string; simulated: boolean }) {
   const partOf = (userId: string, role: string) => participants.find((p) => p.userId === userId)?.part ?? role;
-  const away = participants.filter((p) => !presence.some((c) => c.userId === p.userId));
+  // A demo's technician is the simulator, working inside the server: never "not connected".
+  const virtualTech = simulated ? participants.find((p) => p.part === 'technician') : undefined;
+  const away = participants.filter((p) => !presence.some((c) => c.userId === p.userId) && p !== virtualTech);
   return (
     <section aria-labelledby="presence-h" data-testid="presence" className="grid gap-1 rounded-2xl border-2 border-rule bg-card p-3 text-sm">
       <h2 id="presence-h" className="text-lg font-bold">
@@ -37,7 +39,16 @@ export function PresencePanel({ presence, participants, selfId }: { presence: Pr
             </li>
           );
         })}
-        {presence.length === 0 && <li className="text-ink-soft">Nobody connected (or this view is offline).</li>}
+        {virtualTech && (
+          <li className="flex flex-wrap items-center justify-between gap-2">
+            <span>
+              <span className="mr-2 inline-block h-3 w-3 rounded-full bg-pass" aria-hidden />
+              <b>{virtualTech.name}</b> · technician
+            </span>
+            <span className="text-xs text-ink-soft">simulated in the server</span>
+          </li>
+        )}
+        {presence.length === 0 && !virtualTech && <li className="text-ink-soft">Nobody connected (or this view is offline).</li>}
       </ul>
       {away.length > 0 && (
         <p className="text-ink-soft">
