@@ -3,7 +3,7 @@
 import { useMemo, useRef, useState } from 'react';
 import { DEFAULT_SWEEP_DIAMETER_MM, stageScrews, type BaseModel, type ScrewMove } from '@/lib/leveling';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
-import { baseModelOf, recommendedMoves } from '@/lib/session/advice';
+import { baseModelOf, learnedResponse, recommendedMoves } from '@/lib/session/advice';
 import { adjustStageOf, engineScrews, pendingMoves, stageVerdict, tolerancesOf } from '@/lib/session/derive';
 import type { SessionScrew } from '@/lib/session/events';
 import type { SessionState } from '@/lib/session/fold';
@@ -84,8 +84,9 @@ export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabe
   const [sending, setSending] = useState(false);
   const screws = state.screws.length > 0 ? state.screws : fallbackScrews;
   const travel = state.travelMm ?? travelMm;
-  const model = useMemo(() => safely(() => baseModelOf(state), null), [state]);
-  const recommended = useMemo<ScrewMove[]>(() => safely(() => recommendedMoves(state, model), []), [state, model]);
+  const response = useMemo(() => safely(() => learnedResponse(state), null), [state]);
+  const model = useMemo(() => safely(() => baseModelOf(state, response), null), [state, response]);
+  const recommended = useMemo<ScrewMove[]>(() => safely(() => recommendedMoves(state, model, response), []), [state, model, response]);
   const verdict = useMemo(() => stageVerdict(state, state.stage, unitSystem), [state, unitSystem]);
   const series = useMemo(() => sessionSeries(state), [state]);
   const tolerances = tolerancesOf(state);

@@ -90,13 +90,14 @@ function asLeftCorrection(s: SessionState): AdjustStage {
 
 /**
  * The engine's recommended moves for the current stage: none while moves are pending, while the stage's round is
- * incomplete or already passes, or in stages where no screw is turned.
+ * incomplete or already passes, or in stages where no screw is turned. `model` and `learned` may be passed in when the
+ * caller has them already (the coach view draws the model too).
  */
-export function recommendedMoves(s: SessionState, model?: BaseModel | null): ScrewMove[] {
+export function recommendedMoves(s: SessionState, model?: BaseModel | null, learned?: Response | null): ScrewMove[] {
   const adjust = adjustStageOf(s.stage) ?? (s.stage === 'lock-as-left' ? asLeftCorrection(s) : null);
   if (!adjust || s.travelMm === null || pendingMoves(s).length > 0) return [];
   if (stageVerdict(s, s.stage).status !== 'fail') return [];
-  const response = learnedResponse(s);
+  const response = learned === undefined ? learnedResponse(s) : learned;
   const fitted = model === undefined ? baseModelOf(s, response) : model;
   if (!fitted || !response) return [];
   return recommendMoves({ stage: adjust, screws: engineScrews(s.screws), state: fitted.state, response, tolerances: tolerancesOf(s) });
