@@ -19,14 +19,12 @@ export async function registerFieldWorker(): Promise<void> {
   }
   if (!navigator.onLine) return;
   const cache = await caches.open(FIELD_CACHE);
-  const urls = new Set<string>();
-  for (const e of performance.getEntriesByType('resource')) {
-    const u = new URL(e.name);
-    if (u.origin === location.origin && u.pathname.startsWith('/_next/static/')) urls.add(u.href);
-  }
-  document.querySelectorAll<HTMLScriptElement>('script[src]').forEach((s) => urls.add(new URL(s.src, location.href).href));
-  document.querySelectorAll<HTMLLinkElement>('link[rel="stylesheet"], link[rel="preload"][as="style"], link[rel="preload"][as="font"]').forEach((l) => urls.add(new URL(l.href, location.href).href));
-  const same = [...urls].filter((u) => new URL(u).origin === location.origin && new URL(u).pathname.startsWith('/_next/static/'));
+  const loaded = [
+    ...performance.getEntriesByType('resource').map((e) => e.name),
+    ...[...document.querySelectorAll<HTMLScriptElement>('script[src]')].map((s) => s.src),
+    ...[...document.querySelectorAll<HTMLLinkElement>('link[rel="stylesheet"], link[rel="preload"][as="style"], link[rel="preload"][as="font"]')].map((l) => l.href),
+  ].map((u) => new URL(u, location.href));
+  const same = [...new Set(loaded.filter((u) => u.origin === location.origin && u.pathname.startsWith('/_next/static/')).map((u) => u.href))];
   await Promise.all(
     [...same.map(async (u) => ((await cache.match(u)) ? undefined : cache.add(u))), cache.add(new Request(location.href, { credentials: 'same-origin' }))].map((p) =>
       Promise.resolve(p).catch(() => undefined),

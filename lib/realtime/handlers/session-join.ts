@@ -34,9 +34,11 @@ export const sessionJoinHandler = defineHandler('session:join', async ({ socket,
   await socket.join(sessionRoom(sessionId));
   if (!socket.data.sessions.includes(sessionId)) socket.data.sessions.push(sessionId);
   const events = await listEventsBySession(deps.db, { sessionId, afterSeq });
-  void announcePresence(io, sessionId);
+  // One look at the room: the same list goes to everyone in it and back to the joiner.
+  const presence = await presenceOf(io, sessionId);
+  io.to(sessionRoom(sessionId)).emit('presence:changed', { sessionId, presence });
   sessionJoined(sessionId, socket.data.actor.id);
-  return { events, presence: await presenceOf(io, sessionId) };
+  return { events, presence };
 });
 
 export const sessionLeaveHandler = defineHandler('session:leave', async ({ socket, io }, { sessionId }) => {
