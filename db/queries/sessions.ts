@@ -302,8 +302,11 @@ export async function addParticipant(
 }
 
 /** Moves a session to another state (ended, …) in the same transaction as the event that says so. */
-export async function setSessionState(tx: Tx, sessionId: string, state: LevelingSession['state']) {
-  await tx.update(levelingSessions).set({ state }).where(eq(levelingSessions.id, sessionId));
+export async function setSessionState(tx: Tx, sessionId: string, state: LevelingSession['state'], approvedAt?: Date) {
+  await tx
+    .update(levelingSessions)
+    .set(approvedAt ? { state, approvedAt } : { state })
+    .where(eq(levelingSessions.id, sessionId));
 }
 
 export type SessionWithMachine = NonNullable<Awaited<ReturnType<typeof getSessionForOrganisation>>>;

@@ -9,6 +9,8 @@ const permissions = {
   'session:open': ['technician'],
   'session:view': everyone,
   'reading:submit': ['technician'],
+  /** Comment on, return or approve an ended session's record (the service manager's part). */
+  'session:review': ['reviewer', 'admin'],
   'fleet:read': everyone,
   'fleet:write': ['admin'],
   'instrument:read': everyone,
@@ -38,6 +40,7 @@ const describe: Record<Permission, string> = {
   'session:open': 'open a leveling session',
   'session:view': 'view this session',
   'reading:submit': 'record readings',
+  'session:review': 'review a session’s record',
   'fleet:read': 'read the fleet',
   'fleet:write': 'change customers, sites or machines',
   'instrument:read': 'read instruments',

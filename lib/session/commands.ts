@@ -115,6 +115,62 @@ export type NotePost = z.infer<typeof notePost>;
 export const sessionEnd = z.strictObject({ ...commandBase, reason: z.optional(z.string().check(z.trim(), z.maxLength(500, 'must be at most 500 characters'))) });
 export type SessionEnd = z.infer<typeof sessionEnd>;
 
+const text = (max: number, empty: string) =>
+  z.string().check(z.trim(), z.minLength(1, empty), z.maxLength(max, `must be at most ${max} characters`));
+
+/** A reviewer's comment pinned to the moment the replay stands at (the seq of the last event shown). */
+export const reviewComment = z.strictObject({
+  ...commandBase,
+  atSeq: z.int({ error: 'must be a whole number' }).check(z.gte(0, 'must be 0 or more')),
+  text: text(2000, 'must not be empty'),
+});
+export type ReviewComment = z.infer<typeof reviewComment>;
+
+/** The reviewer sends the record back for rework with at least one reason. */
+export const reviewReturn = z.strictObject({
+  ...commandBase,
+  reasons: z.array(text(500, 'must not be empty')).check(z.minLength(1, 'must give at least one reason'), z.maxLength(20, 'at most 20 reasons')),
+});
+export type ReviewReturn = z.infer<typeof reviewReturn>;
+
+const pixel = z.int({ error: 'must be whole pixels' }).check(z.gte(0, 'must be within the pad'), z.lte(4000, 'must be within the pad'));
+
+/** A drawn signature: at least one stroke of two points or more, within the pad. */
+export const signatureInput = z
+  .strictObject({
+    width: z.int({ error: 'must be whole pixels' }).check(z.gte(50, 'must be at least 50 pixels'), z.lte(4000, 'must be at most 4000 pixels')),
+    height: z.int({ error: 'must be whole pixels' }).check(z.gte(20, 'must be at least 20 pixels'), z.lte(4000, 'must be at most 4000 pixels')),
+    strokes: z
+      .array(
+        z
+          .array(pixel)
+          .check(
+            z.minLength(4, 'each stroke needs two points or more'),
+            z.maxLength(4000, 'a stroke may hold at most 2000 points'),
+            z.refine((a) => a.length % 2 === 0, 'must hold x, y pairs'),
+          ),
+      )
+      .check(z.minLength(1, 'must be drawn'), z.maxLength(100, 'at most 100 strokes')),
+  })
+  .check(
+    z.refine((s) => s.strokes.every((st) => st.every((v, i) => v <= (i % 2 === 0 ? s.width : s.height))), {
+      message: 'must lie within the pad',
+      path: ['strokes'],
+    }),
+  );
+
+/** The reviewer approves: the name typed and the signature drawn. */
+export const reviewApprove = z.strictObject({
+  ...commandBase,
+  name: text(120, 'must type your name'),
+  signature: signatureInput,
+});
+export type ReviewApprove = z.infer<typeof reviewApprove>;
+
+/** The technician takes a returned session up again for rework. */
+export const sessionResume = z.strictObject({ ...commandBase, note: z.optional(z.string().check(z.trim(), z.maxLength(500, 'must be at most 500 characters'))) });
+export type SessionResume = z.infer<typeof sessionResume>;
+
 export const sessionJoin = z.strictObject({
   sessionId: z.uuid({ error: 'must be a UUID' }),
   afterSeq: z._default(z.int().check(z.gte(0)), 0),

@@ -12,6 +12,10 @@ export const EVENT_TYPES = [
   'note:posted',
   'photo:attached',
   'session:ended',
+  'review:commented',
+  'review:returned',
+  'session:resumed',
+  'review:approved',
 ] as const;
 export type EventType = (typeof EVENT_TYPES)[number];
 
@@ -121,6 +125,24 @@ export type PhotoAttachedPayload = {
 
 export type SessionEndedPayload = { reason?: string };
 
+/** A reviewer's comment pinned to a moment of the record: the seq the replay stood at. */
+export type ReviewCommentedPayload = { atSeq: number; text: string };
+
+/** The reviewer sends the session back for rework, saying why. */
+export type ReviewReturnedPayload = { reasons: string[] };
+
+/** The technician takes a returned session up again (rework): it is live until ended again. */
+export type SessionResumedPayload = { note?: string };
+
+/**
+ * A drawn signature: strokes of points in a box `width` × `height` (pixels of the pad it was drawn on), each stroke
+ * flat as x0, y0, x1, y1, … rounded to whole pixels.
+ */
+export type Signature = { width: number; height: number; strokes: number[][] };
+
+/** The reviewer approves the record: the name typed and the signature drawn. */
+export type ReviewApprovedPayload = { name: string; signature: Signature };
+
 type Payloads = {
   'session:opened': SessionOpenedPayload;
   'participant:added': ParticipantAddedPayload;
@@ -132,6 +154,10 @@ type Payloads = {
   'note:posted': NotePostedPayload;
   'photo:attached': PhotoAttachedPayload;
   'session:ended': SessionEndedPayload;
+  'review:commented': ReviewCommentedPayload;
+  'review:returned': ReviewReturnedPayload;
+  'session:resumed': SessionResumedPayload;
+  'review:approved': ReviewApprovedPayload;
 };
 
 export type PayloadOf<T extends EventType> = Payloads[T];

@@ -3,6 +3,7 @@ import type {
   Part,
   PhotoAttachedPayload,
   ReadingPayload,
+  Signature,
   SessionEvent,
   SessionScrew,
   SessionTolerances,
@@ -28,6 +29,21 @@ export type NoteState = { seq: number; at: string; actorId: string | null; actor
 export type PhotoState = PhotoAttachedPayload & { seq: number; at: string };
 export type ParticipantState = { userId: string; name: string; part: Part; seq: number };
 
+/** Where the record stands, as its log says (the session row's `state` column follows the same events). */
+export type SessionStatus = 'live' | 'ended' | 'in_review' | 'returned' | 'approved';
+
+export type ReviewComment = { seq: number; at: string; actorId: string | null; atSeq: number; text: string };
+export type ReviewReturn = { seq: number; at: string; actorId: string | null; reasons: string[] };
+export type ReviewApproval = { seq: number; at: string; actorId: string | null; name: string; signature: Signature };
+
+/** The review of the record: comments pinned to moments, returns for rework and the rework taken up, the approval. */
+export type ReviewState = {
+  comments: ReviewComment[];
+  returns: ReviewReturn[];
+  resumes: { seq: number; at: string; actorId: string | null }[];
+  approval: ReviewApproval | null;
+};
+
 /** What a session looks like after its events: the one implementation, used by server, views, replay and tests. */
 export type SessionState = {
   seq: number;
@@ -48,7 +64,10 @@ export type SessionState = {
   moves: MoveState[];
   notes: NoteState[];
   photos: PhotoState[];
+  /** The last end; null while live (a session taken up again for rework is live until it ends again). */
   ended: { seq: number; at: string; reason: string | null } | null;
+  status: SessionStatus;
+  review: ReviewState;
   /** Latest slope per axis, µrad (positive: rising toward +x / +y); null before the first level reading. */
   slopeXUrad: number | null;
   slopeYUrad: number | null;
@@ -72,6 +91,8 @@ export const initialState: SessionState = Object.freeze({
   notes: [],
   photos: [],
   ended: null,
+  status: 'live',
+  review: Object.freeze({ comments: [], returns: [], resumes: [], approval: null }) as unknown as ReviewState,
   slopeXUrad: null,
   slopeYUrad: null,
 }) as SessionState;
@@ -87,6 +108,12 @@ function draftOf(s: SessionState): SessionState {
     moves: [...s.moves],
     notes: [...s.notes],
     photos: [...s.photos],
+    review: {
+      comments: [...s.review.comments],
+      returns: [...s.review.returns],
+      resumes: [...s.review.resumes],
+      approval: s.review.approval,
+    },
   };
 }
 
@@ -175,11 +202,46 @@ function applyInPlace(d: SessionState, e: SessionEvent): void {
     case 'session:ended': {
       const p = e.payload as SessionEvent<'session:ended'>['payload'];
       d.ended = { seq: e.seq, at: e.serverTs, reason: p.reason ?? null };
+      d.status = 'ended';
+      return;
+    }
+    case 'review:commented': {
+      const p = e.payload as SessionEvent<'review:commented'>['payload'];
+      d.review.comments.push({ seq: e.seq, at: e.serverTs, actorId: e.actorId, atSeq: p.atSeq, text: p.text });
+      if (d.status === 'ended') d.status = 'in_review';
+      return;
+    }
+    case 'review:returned': {
+      const p = e.payload as SessionEvent<'review:returned'>['payload'];
+      d.review.returns.push({ seq: e.seq, at: e.serverTs, actorId: e.actorId, reasons: p.reasons });
+      d.status = 'returned';
+      return;
+    }
+    case 'session:resumed': {
+      d.review.resumes.push({ seq: e.seq, at: e.serverTs, actorId: e.actorId });
+      d.ended = null;
+      d.status = 'live';
+      return;
+    }
+    case 'review:approved': {
+      const p = e.payload as SessionEvent<'review:approved'>['payload'];
+      d.review.approval = { seq: e.seq, at: e.serverTs, actorId: e.actorId, name: p.name, signature: p.signature };
+      d.status = 'approved';
       return;
     }
     default:
       return;
   }
+}
+
+/** A copy of `s` that later events may extend without touching `s` (a replay keeps these as snapshots). */
+export function snapshotOf(s: SessionState): SessionState {
+  return draftOf(s);
+}
+
+/** Applies events in place onto a draft made by snapshotOf (the replay's seek; foldEvents for everyone else). */
+export function applyAllInPlace(d: SessionState, events: readonly SessionEvent[], from = 0, to = events.length): void {
+  for (let i = from; i < to; i++) applyInPlace(d, events[i]!);
 }
 
 /** Applies one event; events at or below the state's seq are ignored, so replays are harmless. */

@@ -1,4 +1,5 @@
 import type { Db } from '@/db/client';
+import type { LevelingSession } from '@/db/schema';
 import { appendChecked, listEventsBySession, type NewEvent, type SessionHead, type Tx } from '@/db/queries/events';
 import { getSessionAccess, getSessionForOrganisation, setSessionState, type SessionAccessRow } from '@/db/queries/sessions';
 import type { Actor } from '@/lib/auth/actor';
@@ -6,7 +7,19 @@ import { assertCan } from '@/lib/auth/policy';
 import { AppError } from '@/lib/errors';
 import { readingToSlopeUrad, reversalCheck } from '@/lib/leveling/level';
 import { broadcast } from '@/lib/realtime/bus';
-import type { CheckMark, MoveAnswer, MoveSend, NotePost, ReadingSubmit, SessionEnd, StageEnter } from './commands';
+import type {
+  CheckMark,
+  MoveAnswer,
+  MoveSend,
+  NotePost,
+  ReadingSubmit,
+  ReviewApprove,
+  ReviewComment,
+  ReviewReturn,
+  SessionEnd,
+  SessionResume,
+  StageEnter,
+} from './commands';
 import { moveOfTurns, stageChecklist } from './derive';
 import type { Part, ReadingPayload, SessionEvent } from './events';
 import { foldEvents, type SessionState } from './fold';
@@ -24,6 +37,10 @@ export const COMMAND_PARTS = {
   'move:answer': ['technician'],
   'note:post': ['technician', 'expert', 'observer'],
   'session:end': ['technician', 'expert'],
+  'session:resume': ['technician'],
+  'review:comment': ['reader'],
+  'review:return': ['reader'],
+  'review:approve': ['reader'],
 } as const satisfies Record<string, readonly Standing[]>;
 export type SessionCommand = keyof typeof COMMAND_PARTS;
 
@@ -36,6 +53,10 @@ const doing: Record<SessionCommand, string> = {
   'move:answer': 'answers moves',
   'note:post': 'posts notes',
   'session:end': 'ends the session',
+  'session:resume': 'takes the session up again',
+  'review:comment': 'comments on the record (reviewers and admins)',
+  'review:return': 'returns the record (reviewers and admins)',
+  'review:approve': 'approves the record (reviewers and admins)',
 };
 
 export type SessionAccess = { session: SessionAccessRow; standing: Standing };
@@ -73,7 +94,16 @@ export async function accessForCommand(db: Db, actor: Actor, sessionId: string, 
  * been answered with its stored event, so a command stored before the end and resent after it still gets its ack.
  */
 export function assertLive(head: Pick<SessionHead, 'state'>): void {
-  if (head.state !== 'live') throw new AppError('conflict:session', `The session is ${head.state.replace('_', ' ')}, not live`);
+  assertState(head, ['live']);
+}
+
+const stateWords: Record<string, string> = { live: 'live', ended: 'ended', in_review: 'in review', returned: 'returned', approved: 'approved', planned: 'planned' };
+
+/** Refuses a command unless the session stands in one of `states` (409 naming both). */
+export function assertState(head: Pick<SessionHead, 'state'>, states: readonly LevelingSession['state'][]): void {
+  if (states.includes(head.state as LevelingSession['state'])) return;
+  const wanted = states.map((x) => stateWords[x]).join(' or ');
+  throw new AppError('conflict:session', `The session is ${stateWords[head.state] ?? head.state}, not ${wanted}`);
 }
 
 /** The session as it stands, folded from its log (inside the append transaction, under the session's row lock). */
@@ -93,10 +123,15 @@ function base(actor: Actor, cmd: { id: string; sessionId: string; clientTs?: str
   return { sessionId: cmd.sessionId, id: cmd.id, actorId: actor.id, actorRole: actor.role, clientTs: cmd.clientTs ?? null };
 }
 
-async function commit(db: Db, key: { sessionId: string; id: string; type: NewEvent['type'] }, build: (tx: Tx) => Promise<NewEvent>): Promise<Done> {
+async function commit(
+  db: Db,
+  key: { sessionId: string; id: string; type: NewEvent['type'] },
+  build: (tx: Tx, head: SessionHead) => Promise<NewEvent>,
+  states: readonly LevelingSession['state'][] = ['live'],
+): Promise<Done> {
   const result = await appendChecked(db, key, async (tx, head) => {
-    assertLive(head);
-    return build(tx);
+    assertState(head, states);
+    return build(tx, head);
   });
   if (!result.duplicate) broadcast(result.event);
   return result;
@@ -207,4 +242,66 @@ export async function endSession(db: Db, actor: Actor, cmd: SessionEnd): Promise
     await setSessionState(tx, cmd.sessionId, 'ended');
     return { ...base(actor, cmd), type: 'session:ended', payload: cmd.reason ? { reason: cmd.reason } : {} };
   });
+}
+
+/** The technician takes a returned session up again for rework: it is live until it ends again. */
+export async function resumeSession(db: Db, actor: Actor, cmd: SessionResume): Promise<Done> {
+  await accessForCommand(db, actor, cmd.sessionId, 'session:resume');
+  return commit(
+    db,
+    { sessionId: cmd.sessionId, id: cmd.id, type: 'session:resumed' },
+    async (tx) => {
+      await setSessionState(tx, cmd.sessionId, 'live');
+      return { ...base(actor, cmd), type: 'session:resumed', payload: cmd.note ? { note: cmd.note } : {} };
+    },
+    ['returned'],
+  );
+}
+
+const REVIEWABLE = ['ended', 'in_review'] as const;
+
+/** A reviewer's comment pinned to a moment of the record; the first one puts an ended session in review. */
+export async function commentOnRecord(db: Db, actor: Actor, cmd: ReviewComment): Promise<Done> {
+  assertCan(actor, 'session:review');
+  await accessForCommand(db, actor, cmd.sessionId, 'review:comment');
+  return commit(
+    db,
+    { sessionId: cmd.sessionId, id: cmd.id, type: 'review:commented' },
+    async (tx, head) => {
+      if (cmd.atSeq > head.lastSeq) throw new AppError('bad_request:atSeq', `atSeq: the record ends at ${head.lastSeq}`, 'atSeq');
+      if (head.state === 'ended') await setSessionState(tx, cmd.sessionId, 'in_review');
+      return { ...base(actor, cmd), type: 'review:commented', payload: { atSeq: cmd.atSeq, text: cmd.text } };
+    },
+    [...REVIEWABLE, 'returned'],
+  );
+}
+
+/** The reviewer returns the record for rework, with reasons; the technician sees them and may take it up again. */
+export async function returnRecord(db: Db, actor: Actor, cmd: ReviewReturn): Promise<Done> {
+  assertCan(actor, 'session:review');
+  await accessForCommand(db, actor, cmd.sessionId, 'review:return');
+  return commit(
+    db,
+    { sessionId: cmd.sessionId, id: cmd.id, type: 'review:returned' },
+    async (tx) => {
+      await setSessionState(tx, cmd.sessionId, 'returned');
+      return { ...base(actor, cmd), type: 'review:returned', payload: { reasons: cmd.reasons } };
+    },
+    REVIEWABLE,
+  );
+}
+
+/** The reviewer approves the record with a typed name and a drawn signature; the machine's next check runs from now. */
+export async function approveRecord(db: Db, actor: Actor, cmd: ReviewApprove): Promise<Done> {
+  assertCan(actor, 'session:review');
+  await accessForCommand(db, actor, cmd.sessionId, 'review:approve');
+  return commit(
+    db,
+    { sessionId: cmd.sessionId, id: cmd.id, type: 'review:approved' },
+    async (tx) => {
+      await setSessionState(tx, cmd.sessionId, 'approved', new Date());
+      return { ...base(actor, cmd), type: 'review:approved', payload: { name: cmd.name, signature: cmd.signature } };
+    },
+    REVIEWABLE,
+  );
 }
