@@ -300,7 +300,11 @@ export const sessionEvents = pgTable(
     id: uuid('id').notNull(),
     type: text('type').notNull(),
     payload: jsonb('payload').notNull(),
-    actorId: uuid('actor_id').references(() => users.id),
+    /**
+     * Who acted: no foreign key, because a log imported from elsewhere keeps its actors' ids unchanged (they are part
+     * of the hash) though those people have no account here.
+     */
+    actorId: uuid('actor_id'),
     actorRole: text('actor_role').notNull(),
     clientTs: timestamptz('client_ts'),
     serverTs: timestamptz('server_ts').notNull(),
