@@ -44,7 +44,7 @@ export function completedRounds(s: SessionState): Round[] {
     const groups = new Map<number, Map<string, RecordedReading>>();
     for (const r of s.readings) {
       if (r.stage !== stage) continue;
-      const round = cuts.filter((c) => c < r.seq).length;
+      const round = countBelow(cuts, r.seq);
       const latest = groups.get(round) ?? new Map<string, RecordedReading>();
       latest.set(readingKey(r), r);
       groups.set(round, latest);
@@ -57,6 +57,18 @@ export function completedRounds(s: SessionState): Round[] {
     }
   }
   return rounds.sort((a, b) => a.seq - b.seq);
+}
+
+/** How many of the ascending `sorted` are below `x` (binary search: a long session has thousands of moves). */
+function countBelow(sorted: readonly number[], x: number): number {
+  let lo = 0;
+  let hi = sorted.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (sorted[mid]! < x) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
 }
 
 /** Tilt X and Y at the centre (µrad), twist and bow over the travel (µrad), sweep TIR (µm) of one round, where it has them. */
