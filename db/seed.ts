@@ -9,6 +9,7 @@ import { pickDemoSeed, VIRTUAL_TECHNICIAN_NAME } from '@/lib/session/virtual-tec
 import { screwRow } from './queries/machines';
 import { getMachineSnapshot, listLiveDemoSessionsOfMachine, listOrdinarySessionsOfTechnician, openSession } from './queries/sessions';
 import { createDb, type Db } from './client';
+import { seedDemoRecords } from './seed-records';
 import { contacts, customers, instruments, machines, organisations, screws, sites, users, visits } from './schema';
 
 export const DEMO_PASSWORD = 'level-demo-2026';
@@ -129,6 +130,8 @@ export async function seedDemoSessions(db: Db): Promise<boolean> {
     });
     wrote = true;
   }
+  const admin = byEmail('admin@northmere.test');
+  if (admin && (await seedDemoRecords(db, { organisationId, machineId: machine.id, people: { tech, expert, reviewer, admin }, now: new Date() }))) wrote = true;
   if ((await listOrdinarySessionsOfTechnician(db, { machineId: machine.id, technicianId: tech.id })).length === 0) {
     await openSession(db, {
       organisationId,

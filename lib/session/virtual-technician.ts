@@ -201,6 +201,8 @@ export type DemoRun = {
   /** What the last stage still lacks or has out of tolerance (empty when it passes). */
   detail: string[];
   events: number;
+  /** The log as played (actorId holds the actor's part; ids derive from the position; times are zero). */
+  log: SessionEvent[];
 };
 
 /** Plays a demo session in memory with `seed`, the coach sending every round of recommended moves as they are. */
@@ -257,6 +259,7 @@ export function simulateDemo(machine: DemoMachine, seed: number, { maxRounds = 3
     stage: end.stage,
     stages: end.stageLog.map((s) => s.stage),
     events: log.events.length,
+    log: log.events,
   };
 }
 
