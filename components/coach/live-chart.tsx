@@ -81,11 +81,15 @@ function Chart({ series, system, t0, t1 }: { series: Series; system: UnitSystem;
   );
 }
 
-/** Each measure over the session's rounds, with its tolerance band (green): the live chart. */
-export function LiveChart({ series, unitSystem }: { series: Record<(typeof SERIES_MEASURES)[number], Series>; unitSystem: UnitSystem }) {
+/**
+ * Each measure over the session's rounds, with its tolerance band (green): the live chart. `spanMs` fixes the time
+ * axis (the replay passes the whole session's, so the axis stays put as the playhead moves); by default it runs from
+ * the first point to the last.
+ */
+export function LiveChart({ series, unitSystem, spanMs }: { series: Record<(typeof SERIES_MEASURES)[number], Series>; unitSystem: UnitSystem; spanMs?: { t0: number; t1: number } }) {
   const times = SERIES_MEASURES.flatMap((m) => series[m].points.map((p) => Date.parse(p.at)));
-  const t0 = times.length > 0 ? Math.min(...times) : 0;
-  const t1 = times.length > 0 ? Math.max(...times) : 0;
+  const t0 = spanMs ? spanMs.t0 : times.length > 0 ? Math.min(...times) : 0;
+  const t1 = spanMs ? spanMs.t1 : times.length > 0 ? Math.max(...times) : 0;
   return (
     <section aria-labelledby="chart-h" className="grid gap-2" data-testid="live-chart">
       <h2 id="chart-h" className="flex flex-wrap items-baseline justify-between gap-2 text-lg font-bold">

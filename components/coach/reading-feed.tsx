@@ -22,12 +22,21 @@ function describe(r: RecordedReading, screws: SessionScrew[], system: UnitSystem
   }
 }
 
+type FeedProps = {
+  readings: RecordedReading[];
+  screws: SessionScrew[];
+  unitSystem: UnitSystem;
+  /** The replay shows the feed as it stood at a moment: its own heading and empty text. */
+  title?: string;
+  emptyText?: string;
+};
+
 /** The readings as the technician records them, newest first. */
-export function ReadingFeed({ readings, screws, unitSystem }: { readings: RecordedReading[]; screws: SessionScrew[]; unitSystem: UnitSystem }) {
+export function ReadingFeed({ readings, screws, unitSystem, title = 'Readings, live', emptyText = 'Waiting for the technician’s first reading.' }: FeedProps) {
   return (
     <section aria-labelledby="feed-h" className="grid content-start gap-2 rounded-2xl border-2 border-rule bg-card p-3 text-sm">
       <h2 id="feed-h" className="text-lg font-bold">
-        Readings, live
+        {title}
       </h2>
       <ol className="grid max-h-72 gap-1 overflow-auto" data-testid="reading-feed">
         {[...readings].reverse().map((r) => {
@@ -39,7 +48,7 @@ export function ReadingFeed({ readings, screws, unitSystem }: { readings: Record
             </li>
           );
         })}
-        {readings.length === 0 && <li className="text-ink-soft">Waiting for the technician’s first reading.</li>}
+        {readings.length === 0 && <li className="text-ink-soft">{emptyText}</li>}
       </ol>
     </section>
   );

@@ -1,0 +1,313 @@
+'use client';
+
+import Link from 'next/link';
+import { useCallback, useEffect, useMemo, useRef, type ReactNode } from 'react';
+import { DEFAULT_SWEEP_DIAMETER_MM } from '@/lib/leveling';
+import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
+import { baseModelOf, learnedResponse } from '@/lib/session/advice';
+import { stageVerdict, tolerancesOf } from '@/lib/session/derive';
+import type { SessionScrew } from '@/lib/session/events';
+import type { SessionState } from '@/lib/session/fold';
+import { countThrough, stageMarkers, stateAt, type ReplayIndex } from '@/lib/session/replay';
+import { sessionSeries } from '@/lib/session/series';
+import { BaseNumbers } from '@/components/coach/base-numbers';
+import type { Standing } from '@/components/coach/format';
+import { LiveChart } from '@/components/coach/live-chart';
+import { MovesList } from '@/components/coach/moves-list';
+import { NotesPanel } from '@/components/coach/notes-panel';
+import { PhotosPanel } from '@/components/coach/photos-panel';
+import { ReadingFeed } from '@/components/coach/reading-feed';
+import { StagePanel } from '@/components/coach/stage-panel';
+import { TiltPanel } from '@/components/coach/tilt-panel';
+import { ReviewPanel } from '@/components/review/review-panel';
+import { StatusChip } from '@/components/review/record-status';
+import type { SceneMove } from '@/components/viewer/tilt-view';
+import { elapsed, lastSeqOf, MAX_GAP_MS, realOffsetOf, timelineOf } from './player-clock';
+import { Timeline, type Pin, type RecordMark } from './timeline';
+import { usePlayer } from './use-player';
+import { useReplayLog } from './use-replay-log';
+
+type Props = {
+  sessionId: string;
+  standing: Standing;
+  selfId: string;
+  unitSystem: UnitSystem;
+  machineLabel: string;
+  technicianName: string;
+  /** The machine's footprint now, for sessions whose log does not carry one. */
+  fallbackScrews: SessionScrew[];
+  table: { lengthMm: number; widthMm: number };
+  travelMm: number;
+  /** A reviewer or admin reading the session: comments, returns and approves. */
+  canReview: boolean;
+  /** The record's summary and report actions, placed in the lower row when given. */
+  summary?: ReactNode;
+};
+
+/** The engine can refuse a model it cannot fit; the replay then shows none rather than failing. */
+function safely<T>(f: () => T, fallback: T): T {
+  try {
+    return f();
+  } catch {
+    return fallback;
+  }
+}
+
+/** What the replay draws at one moment; computed only for the moment shown, and kept for the last few moments seen. */
+type Moment = {
+  state: SessionState;
+  model: ReturnType<typeof baseModelOf>;
+  verdict: ReturnType<typeof stageVerdict>;
+  series: ReturnType<typeof sessionSeries>;
+};
+
+const MOMENTS_KEPT = 48;
+
+function momentOf(index: ReplayIndex, seq: number, unitSystem: UnitSystem): Moment {
+  const state = stateAt(index, seq);
+  const response = safely(() => learnedResponse(state), null);
+  return {
+    state,
+    model: safely(() => baseModelOf(state, response), null),
+    verdict: stageVerdict(state, state.stage, unitSystem),
+    series: sessionSeries(state),
+  };
+}
+
+/** Marks of the record itself along the timeline: each end, return, rework taken up, and the approval. */
+function recordMarks(index: ReplayIndex): RecordMark[] {
+  const kinds: Record<string, RecordMark['kind']> = { 'session:ended': 'ended', 'review:returned': 'returned', 'session:resumed': 'resumed', 'review:approved': 'approved' };
+  return index.events.flatMap((e) => (kinds[e.type] ? [{ seq: e.seq, kind: kinds[e.type]! }] : []));
+}
+
+const ROLE_WORDS: Record<string, string> = { reviewer: 'A reviewer', admin: 'An admin', technician: 'The technician', expert: 'An expert' };
+
+/**
+ * The replay: the session as it was at the playhead (tilt view, base model, charts, readings, photos, the stage and its
+ * verdict, moves with their status then, notes), a timeline to play and seek it, and the review of the record. The
+ * log is loaded and indexed once; each moment is a snapshot plus at most a few hundred events (stateAt), and the
+ * figures are worked out only for the moment shown.
+ */
+export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLabel, technicianName, fallbackScrews, table, travelMm, canReview, summary }: Props) {
+  const { index, error, loading, refresh } = useReplayLog(sessionId);
+  const timeline = useMemo(() => (index ? timelineOf(index, MAX_GAP_MS) : null), [index]);
+  const player = usePlayer(timeline?.clock ?? null, timeline?.totalMs ?? 0);
+  const { seq } = player;
+
+  const cache = useRef(new Map<number, Moment>());
+  const cachedFor = useRef<ReplayIndex | null>(null);
+  const moment = useMemo(() => {
+    if (!index) return null;
+    if (cachedFor.current !== index) {
+      cache.current.clear();
+      cachedFor.current = index;
+    }
+    const kept = cache.current.get(seq);
+    if (kept) return kept;
+    const m = momentOf(index, seq, unitSystem);
+    cache.current.set(seq, m);
+    if (cache.current.size > MOMENTS_KEPT) cache.current.delete(cache.current.keys().next().value!);
+    return m;
+  }, [index, seq, unitSystem]);
+
+  const markers = useMemo(() => (timeline ? stageMarkers(timeline.clock) : []), [timeline]);
+  const marks = useMemo(() => (index ? recordMarks(index) : []), [index]);
+  const pins = useMemo<Pin[]>(() => (index ? index.final.review.comments.map((c) => ({ seq: c.seq, atSeq: c.atSeq, text: c.text })) : []), [index]);
+  const spanMs = useMemo(() => {
+    if (!index || index.events.length === 0) return undefined;
+    // The charts' time axis: the work itself, from the first event to the last end (review events come later).
+    const ends = marks.filter((m) => m.kind === 'ended');
+    const lastWork = ends.length > 0 ? ends.at(-1)!.seq : lastSeqOf(index);
+    const t0 = Date.parse(index.events[0]!.serverTs);
+    return { t0, t1: t0 + realOffsetOf(index, lastWork) };
+  }, [index, marks]);
+
+  const { seek, step, toggle, setSpeed, seekOffset } = player;
+  const stepStage = useCallback(
+    (dir: 1 | -1) => {
+      const target = dir === 1 ? markers.find((m) => m.seq > seq) : [...markers].reverse().find((m) => m.seq < seq);
+      if (target) seek(target.seq);
+      else if (dir === -1) seek(0);
+    },
+    [markers, seek, seq],
+  );
+
+  useEffect(() => {
+    const onKey = (e: KeyboardEvent) => {
+      const t = e.target as HTMLElement | null;
+      if (t && (t.isContentEditable || ['INPUT', 'TEXTAREA', 'SELECT'].includes(t.tagName) || t.closest('dialog[open]') || t.tagName === 'CANVAS')) return;
+      if (e.altKey || e.ctrlKey || e.metaKey) return;
+      if (e.key === ' ') {
+        e.preventDefault();
+        toggle();
+      } else if (e.key === 'ArrowRight' || e.key === 'ArrowLeft') {
+        e.preventDefault();
+        const dir = e.key === 'ArrowRight' ? 1 : -1;
+        if (e.shiftKey) stepStage(dir);
+        else step(dir);
+      } else if (e.key === 'Home') {
+        e.preventDefault();
+        seek(0);
+      } else if (e.key === 'End' && index) {
+        e.preventDefault();
+        seek(lastSeqOf(index));
+      }
+    };
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, [index, seek, step, stepStage, toggle]);
+
+  const whoMade = useCallback(
+    (s: number) => {
+      if (!index) return '';
+      const e = index.events[countThrough(index, s) - 1];
+      if (!e || e.seq !== s) return '';
+      if (e.actorId === selfId) return 'You';
+      return index.final.participants.find((p) => p.userId === e.actorId)?.name ?? ROLE_WORDS[e.actorRole] ?? e.actorRole;
+    },
+    [index, selfId],
+  );
+  const model = moment?.model ?? null;
+  const shapeKey = model ? [model.state.tiltXUrad, model.state.tiltYUrad, model.state.twistUrad, model.state.bowUrad].map((v) => v.toFixed(3)).join(',') : 'none';
+  // One object while the figures are unchanged, so the tilt view redraws only when the shape moves (as in the coach view).
+  const shape = useMemo(
+    () => (model ? { tiltXUrad: model.state.tiltXUrad, tiltYUrad: model.state.tiltYUrad, twistUrad: model.state.twistUrad, bowUrad: model.state.bowUrad } : null),
+    [shapeKey],
+  );
+  const momentLabel = useCallback((s: number) => (index ? `seq ${s} · ${elapsed(realOffsetOf(index, s))}` : `seq ${s}`), [index]);
+
+  if (error) {
+    return (
+      <main className="mx-auto grid max-w-xl gap-3 p-6">
+        <h1 className="text-2xl font-bold">The record could not be loaded</h1>
+        <p role="alert" className="text-fail">
+          {error.message}
+        </p>
+        <Link href={`/sessions/${sessionId}`} className="font-semibold underline underline-offset-4">
+          Back to the session
+        </Link>
+      </main>
+    );
+  }
+  if (loading || !index || !timeline || !moment) {
+    return (
+      <main className="grid place-items-center p-10 text-ink-soft" aria-busy="true">
+        Loading the session’s log…
+      </main>
+    );
+  }
+
+  const { state, verdict, series } = moment;
+  const record = index.final;
+  const screws = state.screws.length > 0 ? state.screws : fallbackScrews;
+  const travel = state.travelMm ?? travelMm;
+  const sceneMoves: SceneMove[] = [];
+  {
+    const byScrew = new Map<string, SceneMove>();
+    for (const m of state.moves) if (m.status === 'done' && m.stage === state.stage) byScrew.set(m.screwId, { screwId: m.screwId, turns: m.doneTurns ?? m.turns, status: 'done' });
+    for (const m of state.moves) if (m.status === 'pending') byScrew.set(m.screwId, { screwId: m.screwId, turns: m.turns, status: 'pending' });
+    sceneMoves.push(...byScrew.values());
+  }
+  const lastLevel = state.readings.findLast((r) => r.kind === 'level');
+  const lastSweep = state.readings.findLast((r) => r.kind === 'sweep');
+  const sweepDiameterMm = lastSweep?.kind === 'sweep' ? lastSweep.diameterMm : DEFAULT_SWEEP_DIAMETER_MM;
+  const showSweep = state.stage === 'spindle-sweep' || lastSweep !== undefined;
+  const sweepLabel = `sweep circle ⌀${unitSystem === 'inch' ? `${(sweepDiameterMm / 25.4).toFixed(1)} in` : `${Math.round(sweepDiameterMm)} mm`}`;
+
+  return (
+    <main className="grid gap-4 p-4 xl:grid-cols-[minmax(0,1fr)_28rem] min-[1400px]:grid-cols-[minmax(0,1fr)_31rem]">
+      <header className="flex flex-wrap items-center justify-between gap-3 xl:col-span-2">
+        <div>
+          <p className="text-sm font-semibold uppercase tracking-wide text-ink-soft">
+            Replay · technician {technicianName} · {index.events.length} events
+          </p>
+          <h1 className="text-2xl font-bold">{record.machineLabel ?? machineLabel}</h1>
+        </div>
+        <div className="flex flex-wrap items-center gap-2">
+          <StatusChip status={record.status} />
+          <Link href={`/sessions/${sessionId}/${standing === 'technician' ? 'field' : 'coach'}`} className="min-h-11 content-center rounded-lg border-2 border-ink px-3 font-semibold hover:bg-paper">
+            {standing === 'technician' ? 'Field view' : 'Coach view'}
+          </Link>
+        </div>
+        {record.status === 'live' && (
+          <p role="status" className="w-full rounded-lg bg-vial/40 px-3 py-2 text-sm font-semibold">
+            This session is still live: the replay runs up to its latest event and picks up new ones every few seconds. Reviewing opens once it has ended.
+          </p>
+        )}
+      </header>
+
+      <Timeline
+          index={index}
+          clock={timeline.clock}
+          totalMs={timeline.totalMs}
+          shortened={timeline.shortened}
+          maxGapMs={MAX_GAP_MS}
+          seq={seq}
+          playing={player.playing}
+          speed={player.speed}
+          markers={markers}
+          pins={pins}
+          marks={marks}
+          onToggle={toggle}
+          onSpeed={setSpeed}
+          onStep={step}
+          onSeek={seek}
+          onSeekOffset={seekOffset}
+          className="xl:col-span-2"
+        />
+
+      <div className="grid min-w-0 content-start gap-4" data-testid="replay-moment" data-seq={seq}>
+        <div className="grid gap-3 xl:grid-cols-[minmax(0,1fr)_12rem] 2xl:grid-cols-[minmax(0,1fr)_14rem]">
+          <TiltPanel
+            screws={screws}
+            table={table}
+            travelMm={travel}
+            shape={shape}
+            level={lastLevel?.kind === 'level' ? { axis: lastLevel.axis, positionMm: lastLevel.positionMm } : null}
+            sweep={showSweep ? { diameterMm: sweepDiameterMm, label: sweepLabel } : null}
+            moves={sceneMoves}
+            unitSystem={unitSystem}
+          />
+          <BaseNumbers model={model} tolerances={tolerancesOf(state)} unitSystem={unitSystem} />
+        </div>
+        <LiveChart series={series} unitSystem={unitSystem} spanMs={spanMs} />
+        <div className="grid gap-4 lg:grid-cols-2">
+          <div className="grid content-start gap-2">
+            <p className="flex flex-wrap gap-x-4 text-sm">
+              <span>
+                X reading then: <b className="tabular" data-testid="slope-x">{state.slopeXUrad === null ? '—' : formatSlope(state.slopeXUrad, unitSystem)}</b>
+              </span>
+              <span>
+                Y reading then: <b className="tabular" data-testid="slope-y">{state.slopeYUrad === null ? '—' : formatSlope(state.slopeYUrad, unitSystem)}</b>
+              </span>
+            </p>
+            <ReadingFeed readings={state.readings} screws={screws} unitSystem={unitSystem} title={`Readings up to seq ${seq}`} emptyText="No readings yet at this moment." />
+          </div>
+          <PhotosPanel sessionId={sessionId} photos={state.photos} />
+        </div>
+      </div>
+
+      <aside className="grid min-w-0 content-start gap-3" aria-label="Review and the moment’s stage">
+        <StagePanel state={state} verdict={verdict} />
+        <ReviewPanel
+          sessionId={sessionId}
+          record={record}
+          canReview={canReview}
+          seq={seq}
+          momentOf={momentLabel}
+          whoMade={whoMade}
+          onSeek={seek}
+          onStored={refresh}
+        />
+        <MovesList moves={state.moves} screws={screws} unitSystem={unitSystem} />
+        <NotesPanel notes={state.notes} participants={record.participants} selfId={selfId} canPost={false} onPost={async () => undefined} />
+      </aside>
+
+      {summary && (
+        <section aria-label="Record summary" className="grid min-w-0 gap-4 xl:col-span-2">
+          {summary}
+        </section>
+      )}
+    </main>
+  );
+}
