@@ -17,6 +17,7 @@ import { MoveCard } from './move-card';
 import { NotesPanel } from './notes-panel';
 import { PhotoPanel } from './photo-panel';
 import { ReadingEntry } from './reading-entry';
+import { ReturnedBanner } from './returned-banner';
 import { StageReadings } from './stage-readings';
 import { StageStepper } from './stage-stepper';
 import { TopView } from './top-view';
@@ -149,9 +150,15 @@ export function FieldView({ sessionId, userId, unitSystem, machineLabel, tableMm
         )}
       </div>
 
-      {ended && (
+      {state.status === 'returned' && <ReturnedBanner sessionId={sessionId} review={state.review} online={link === 'live'} />}
+      {ended && state.status !== 'returned' && (
         <p role="status" className="rounded-xl bg-steel p-3 text-lg font-bold text-paper">
-          This session has ended{state.ended?.reason ? `: ${state.ended.reason}` : ''}. Nothing more can be recorded.
+          {state.status === 'approved' && state.review.approval
+            ? `This session’s record was approved by ${state.review.approval.name}. Nothing more can be recorded.`
+            : `This session has ended${state.ended?.reason ? `: ${state.ended.reason}` : ''}. Nothing more can be recorded${state.status === 'in_review' ? '; it is in review' : ''}.`}{' '}
+          <a href={`/sessions/${sessionId}/replay`} className="font-semibold text-vial underline underline-offset-4">
+            Replay
+          </a>
         </p>
       )}
 

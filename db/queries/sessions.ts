@@ -62,6 +62,34 @@ export async function listSessionsForUser(
 }
 export type SessionListRow = Awaited<ReturnType<typeof listSessionsForUser>>[number];
 
+/**
+ * Sessions of an organisation waiting for review (ended, or in review: commented, not yet approved or returned),
+ * the longest waiting first, for the reviewers' and admins' start page.
+ */
+export async function listSessionsAwaitingReview(db: Db, { organisationId, limit = 50 }: { organisationId: string; limit?: number }) {
+  return db
+    .select({
+      id: levelingSessions.id,
+      state: levelingSessions.state,
+      createdAt: levelingSessions.createdAt,
+      lastSeq: levelingSessions.lastSeq,
+      machineModel: machines.model,
+      machineSerial: machines.serial,
+      siteName: sites.name,
+      customerName: customers.name,
+      technicianName: users.name,
+    })
+    .from(levelingSessions)
+    .innerJoin(machines, eq(machines.id, levelingSessions.machineId))
+    .innerJoin(sites, eq(sites.id, machines.siteId))
+    .innerJoin(customers, eq(customers.id, sites.customerId))
+    .innerJoin(users, eq(users.id, levelingSessions.technicianId))
+    .where(and(eq(levelingSessions.organisationId, organisationId), inArray(levelingSessions.state, ['ended', 'in_review'])))
+    .orderBy(asc(levelingSessions.createdAt), asc(levelingSessions.id))
+    .limit(limit);
+}
+export type AwaitingReviewRow = Awaited<ReturnType<typeof listSessionsAwaitingReview>>[number];
+
 /** What the virtual technician needs to know of a session before acting: null when absent. */
 export async function getSessionRunner(db: Db, sessionId: string) {
   const [row] = await db

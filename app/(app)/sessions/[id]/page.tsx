@@ -4,12 +4,18 @@ import { notFound, redirect } from 'next/navigation';
 import { z } from 'zod';
 import { db } from '@/db/client';
 import { requirePageActor } from '@/lib/auth/session';
+import { can } from '@/lib/auth/policy';
 import { AppError } from '@/lib/errors';
 import { accessSession, type SessionAccess } from '@/lib/session/service';
+import { StatusChip } from '@/components/review/record-status';
 
 export const metadata: Metadata = { title: 'Session' };
 
-/** Sends each participant to their own view: the technician to the field view, everyone else to the coach view. */
+/**
+ * A live session sends each participant to their own view: the technician to the field view, everyone else to the
+ * coach view. A finished one (ended, in review, returned, approved) shows where its record stands and offers the
+ * replay; a returned one is marked for its technician, who takes it up again from the field view.
+ */
 export default async function SessionPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
   const actor = await requirePageActor(`/sessions/${id}`);
@@ -22,7 +28,39 @@ export default async function SessionPage({ params }: { params: Promise<{ id: st
     if (e instanceof AppError && e.status === 403) return <NotTakingPart />;
     throw e;
   }
-  redirect(access.standing === 'technician' ? `/sessions/${id}/field` : `/sessions/${id}/coach`);
+  const own = access.standing === 'technician' ? `/sessions/${id}/field` : `/sessions/${id}/coach`;
+  const { state } = access.session;
+  if (state === 'live' || state === 'planned') redirect(own);
+  const returnedToMe = state === 'returned' && access.standing === 'technician';
+  const reviews = can(actor, 'session:review') && access.standing === 'reader';
+  return (
+    <main className="mx-auto grid max-w-xl gap-4 p-6">
+      <div className="flex flex-wrap items-center justify-between gap-2">
+        <h1 className="text-2xl font-bold">Session record</h1>
+        <StatusChip status={state} />
+      </div>
+      {returnedToMe && (
+        <p role="alert" data-testid="returned-marker" className="rounded-xl border-4 border-fail bg-fail/5 p-4 text-lg font-bold">
+          The reviewer returned this session for rework. The field view shows why; take it up again there.
+        </p>
+      )}
+      {state === 'ended' && <p>The session has ended; its record waits for review.</p>}
+      {state === 'in_review' && <p>The record is in review.</p>}
+      {state === 'approved' && <p>The record is approved.</p>}
+      {state === 'returned' && !returnedToMe && <p>The record was returned for rework; its technician takes it up again.</p>}
+      <div className="flex flex-wrap gap-2">
+        <Link href={`/sessions/${id}/replay`} className="inline-flex min-h-12 items-center rounded-lg bg-spirit px-5 text-lg font-semibold text-white hover:bg-spirit-deep">
+          {reviews && (state === 'ended' || state === 'in_review') ? 'Replay and review' : 'Replay'}
+        </Link>
+        <Link
+          href={own}
+          className={`inline-flex min-h-12 items-center rounded-lg px-5 text-lg font-semibold ${returnedToMe ? 'bg-fail text-white' : 'border-2 border-ink bg-card hover:bg-paper'}`}
+        >
+          {returnedToMe ? 'Open the field view to take it up again' : access.standing === 'technician' ? 'Field view' : 'Coach view'}
+        </Link>
+      </div>
+    </main>
+  );
 }
 
 function NotTakingPart() {
