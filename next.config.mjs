@@ -3,7 +3,8 @@ const nextConfig = {
   reactStrictMode: true,
   poweredByHeader: false,
   typedRoutes: false,
-  serverExternalPackages: ['pg', 'bcryptjs'],
+  // pdfkit reads its font metrics from its own folder at run time: it must stay a plain Node package, not bundled.
+  serverExternalPackages: ['pg', 'bcryptjs', 'pdfkit'],
   async headers() {
     return [
       {

@@ -15,9 +15,12 @@ function transport(): Transporter {
   return g[key]!;
 }
 
-export type Mail = { to: string | string[]; subject: string; text: string };
+/** A file sent with a message (the service report's PDF). */
+export type MailAttachment = { filename: string; content: Buffer; contentType: string };
 
-/** Sends one plain-text message through the configured SMTP server. */
+export type Mail = { to: string | string[]; subject: string; text: string; attachments?: MailAttachment[] };
+
+/** Sends one plain-text message, with any attachments, through the configured SMTP server. */
 export async function sendMail(mail: Mail): Promise<void> {
   await transport().sendMail({ from: env().MAIL_FROM, ...mail });
 }
