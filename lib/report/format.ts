@@ -13,7 +13,8 @@ export function measureText(value: number, row: Pick<MeasureRow, 'unit' | 'signe
 
 /** '+' or '-' for a value whose shown digits are not all zero ("0.0000 in" carries no sign). */
 function signOf(value: number, shown: string): string {
-  if (!/[1-9]/.test(shown)) return '';
+  // Only the number counts: the unit "in/10 in" has digits of its own.
+  if (!/[1-9]/.test(shown.split(' ')[0] ?? '')) return '';
   return value > 0 ? '+' : value < 0 ? '-' : '';
 }
 

@@ -94,6 +94,14 @@ export async function sendReport(
   return { to: { name: contact.name, email: contact.email }, expiresAt: expiresAt.toISOString(), fileName: report.fileName, units: report.units };
 }
 
+/** Who an approved report would go to (reviewers and admins): the contact, or null when none has an e-mail. */
+export async function reportRecipientFor(db: Db, actor: Actor, sessionId: string): Promise<{ name: string; email: string } | null> {
+  assertCan(actor, 'session:review');
+  const facts = await factsFor(db, actor, sessionId);
+  const contact = reportRecipient(facts.customer.contacts);
+  return contact ? { name: contact.name, email: contact.email } : null;
+}
+
 /** The report a valid link names (checked by the caller with verifyReportLink), in the link's units. */
 export async function reportForLink(db: Db, claims: ReportLinkClaims, now = new Date()): Promise<RenderedReport> {
   const facts = await loadReportFacts(db, { sessionId: claims.sessionId });

@@ -220,6 +220,15 @@ describe('POST /api/sessions/:id/report/send and the signed link', () => {
     expect((await post(path, cookies.reviewer, { days: 7, cc: 'x' })).json).toMatchObject({ status: 400 });
   });
 
+  it('GET names who would receive it (reviewers and admins): the contact marked to receive reports, or null', async () => {
+    const path = `/api/sessions/${approvedId}/report/send`;
+    expect((await api(path)).status).toBe(401);
+    expect((await api(path, { cookie: cookies.tech })).json).toMatchObject({ status: 403 });
+    expect((await api(path, { cookie: cookies.otherAdmin })).json).toMatchObject({ status: 404 });
+    expect((await api(path, { cookie: cookies.admin })).json).toEqual({ recipient: { name: 'Casey Lead', email: contactEmail }, linkDays: 14 });
+    expect((await api(`/api/sessions/${otherApprovedId}/report/send`, { cookie: cookies.otherReviewer })).json).toMatchObject({ recipient: null });
+  });
+
   it('409 naming the customer when no contact has an e-mail', async () => {
     const res = await post(`/api/sessions/${otherApprovedId}/report/send`, cookies.otherReviewer, {});
     expect(res.json).toMatchObject({ status: 409, code: 'conflict:contact', detail: expect.stringContaining('Elsewhere customer') });

@@ -126,6 +126,8 @@ describe('report text helpers', () => {
   });
   it('signs a figure only when its shown digits are not all zero', () => {
     expect(measureText(-0.1, { unit: 'um', signed: true }, 'inch')).toBe('0.0000 in');
+    expect(measureText(-0.001, { unit: 'urad', signed: true }, 'inch')).toBe('0.00000 in/10 in'); // not fooled by the 1 of "10 in"
+    expect(measureText(-2, { unit: 'urad', signed: true }, 'inch')).toBe('-0.00002 in/10 in');
     expect(measureText(-25.4, { unit: 'um', signed: true }, 'inch')).toBe('-0.0010 in'); // 25.4 µm = 0.001 in (NIST)
     expect(measureText(20, { unit: 'urad', signed: true }, 'metric')).toBe('+0.020 mm/m'); // 20 µrad = 0.02 mm/m (TRADE.md §2)
     expect(measureText(20, { unit: 'urad', signed: false }, 'inch')).toBe('0.00020 in/10 in'); // TRADE.md §2 table

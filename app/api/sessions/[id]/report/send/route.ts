@@ -5,7 +5,7 @@ import { env } from '@/lib/env';
 import { AppError } from '@/lib/errors';
 import { parseWith, route } from '@/lib/http';
 import { reportLinkDays } from '@/lib/report/link';
-import { sendReport } from '@/lib/report/service';
+import { reportRecipientFor, sendReport } from '@/lib/report/service';
 import { sessionParams } from '../../schema';
 import { sendReportInput } from './schema';
 
@@ -32,4 +32,12 @@ export const POST = route<Ctx>('report', async (req, { params }) => {
   const baseUrl = env().NEXTAUTH_URL ?? new URL(req.url).origin;
   const sent = await sendReport(db(), actor, id, { baseUrl, days: input.days ?? reportLinkDays(), secret: env().NEXTAUTH_SECRET });
   return NextResponse.json({ sent });
+});
+
+/** Who the report would be sent to and for how many days the link works (reviewers and admins), before sending. */
+export const GET = route<Ctx>('report', async (_req, { params }) => {
+  const actor = await requireActor();
+  const { id } = parseWith(sessionParams, await params, 'report');
+  const recipient = await reportRecipientFor(db(), actor, id);
+  return NextResponse.json({ recipient, linkDays: reportLinkDays() });
 });
