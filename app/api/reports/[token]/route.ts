@@ -16,7 +16,7 @@ type Ctx = { params: Promise<{ token: string }> };
 export const GET = route<Ctx>('report_link', async (_req, { params }) => {
   const { token } = await params;
   const now = new Date();
-  const check = verifyReportLink(decodeURIComponent(token), env().NEXTAUTH_SECRET, now);
+  const check = verifyReportLink(token, env().NEXTAUTH_SECRET, now);
   if (!check.ok && check.problem === 'expired') {
     const when = check.expiredAt.toISOString().slice(0, 16).replace('T', ' ');
     const detail = `This report link expired on ${when} UTC; ask the service company to send the report again`;
