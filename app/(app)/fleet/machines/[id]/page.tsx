@@ -3,10 +3,13 @@ import { notFound } from 'next/navigation';
 import { z } from 'zod';
 import { db } from '@/db/client';
 import { listSites } from '@/db/queries/customers';
+import { getMachineHistory } from '@/db/queries/history';
 import { getMachine } from '@/db/queries/machines';
 import { MachineForm } from '@/components/fleet/machine-form';
+import { MachineHistory } from '@/components/fleet/machine-history';
 import { can } from '@/lib/auth/policy';
 import { requirePageActor } from '@/lib/auth/session';
+import { todayUtc } from '@/lib/dates';
 
 export const metadata: Metadata = { title: 'Machine' };
 
@@ -14,8 +17,17 @@ export default async function MachinePage({ params }: { params: Promise<{ id: st
   const { id } = await params;
   const actor = await requirePageActor(`/fleet/machines/${id}`);
   if (!z.uuid().safeParse(id).success) notFound();
-  const [machine, sites] = await Promise.all([getMachine(db(), { organisationId: actor.organisationId, id }), listSites(db(), { organisationId: actor.organisationId })]);
-  if (!machine) notFound();
+  const [machine, sites, history] = await Promise.all([
+    getMachine(db(), { organisationId: actor.organisationId, id }),
+    listSites(db(), { organisationId: actor.organisationId }),
+    getMachineHistory(db(), {
+      organisationId: actor.organisationId,
+      machineId: id,
+      viewer: { id: actor.id, readsAll: actor.role === 'reviewer' || actor.role === 'admin' },
+      today: todayUtc(new Date()),
+    }),
+  ]);
+  if (!machine || !history) notFound();
   const mayWrite = can(actor, 'fleet:write');
   const form = {
     ...machine,
@@ -40,6 +52,14 @@ export default async function MachinePage({ params }: { params: Promise<{ id: st
         </h1>
         {machine.site.floorNotes && <p className="mt-1 max-w-3xl text-ink-soft">Floor: {machine.site.floorNotes}</p>}
       </div>
+      <MachineHistory
+        rows={history.rows}
+        series={history.series}
+        due={history.due}
+        checkIntervalMonths={history.machine.checkIntervalMonths}
+        unitSystem={actor.unitSystem}
+        mayImport={actor.role === 'admin'}
+      />
       <MachineForm unitSystem={actor.unitSystem} sites={sites} machine={form} readOnly={!mayWrite} />
     </main>
   );
