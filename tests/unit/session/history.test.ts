@@ -237,6 +237,7 @@ describe('checkSessionFile', () => {
       const checked = checkSessionFile(file);
       expect(checked.ok ? 'accepted' : checked.problem.field, field).toBe(field);
     }
+    expect(checkSessionFile([fileOf(l)])).toEqual({ ok: false, problem: { field: 'file', message: expect.stringMatching(/^file: not a Levelwire session export/) } });
     const bad = fileOf(l);
     bad.events[3].payload.divisions = 'two';
     const checked = checkSessionFile(bad);
