@@ -83,10 +83,10 @@ export async function importSessionFile(
         );
       }
 
-      const named = [...new Set(state.participants.map((p) => p.userId).filter((id) => /^[0-9a-f-]{36}$/i.test(id)))];
+      const logTechnician = state.participants.find((p) => p.part === 'technician')?.userId ?? file.events[0]!.actorId;
+      const named = [...new Set([...state.participants.map((p) => p.userId), logTechnician ?? ''].filter((id) => /^[0-9a-f-]{36}$/i.test(id)))];
       const members = named.length === 0 ? [] : await tx.select({ id: users.id }).from(users).where(and(inArray(users.id, named), eq(users.organisationId, organisationId)));
       const known = new Set(members.map((m) => m.id));
-      const logTechnician = state.participants.find((p) => p.part === 'technician')?.userId ?? file.events[0]!.actorId;
       const technicianFromLog = logTechnician !== null && known.has(logTechnician);
       const technicianId = technicianFromLog ? logTechnician! : input.importerId;
 
