@@ -4,11 +4,13 @@
  * series out; `today` is passed in.
  *
  * As-found of a measure = the first point of `sessionSeries(state)[m]` (the first completed round that gives it);
- * as-left = the last point. A session whose rounds never gave a measure has neither for it.
+ * as-left = the value of the last completed lock-and-as-left round when it has the measure, else the last point: the
+ * same rule as the session's summary (lib/session/summary.ts). A session whose rounds never gave a measure has neither.
  */
 import { dueStatus, lastLeveledOn, nextDueOn, type DueStatus } from '@/lib/fleet/due';
 import { initialState, type SessionState, type SessionStatus } from './fold';
-import { SERIES_MEASURES, sessionSeries, withinTolerance, type Series, type SeriesMeasure, type SeriesPoint } from './series';
+import { completedRounds, roundMeasures, SERIES_MEASURES, sessionSeries, withinTolerance, type Series, type SeriesMeasure, type SeriesPoint } from './series';
+import { lastAsLeftRound } from './summary';
 
 /** The states after live that the history shows (a session resumed for rework is live again and drops out until it ends). */
 export const HISTORY_STATUSES = ['ended', 'in_review', 'returned', 'approved'] as const satisfies readonly SessionStatus[];
@@ -24,9 +26,12 @@ export type MeasureEnds = {
 /** As-found and as-left of every measure of one folded session. */
 export function asFoundAsLeft(state: SessionState): Record<SeriesMeasure, MeasureEnds> {
   const series = sessionSeries(state);
+  const lock = lastAsLeftRound(state, completedRounds(state));
+  const lockValues = lock ? roundMeasures(lock) : {};
   const ends = (s: Series): MeasureEnds => {
     const first = s.points[0];
-    const last = s.points.at(-1);
+    const fromLock = lockValues[s.measure];
+    const last = lock && fromLock !== undefined ? { seq: lock.seq, at: lock.at, value: fromLock, stage: lock.stage } : s.points.at(-1);
     return {
       asFound: first ? { ...first, within: withinTolerance(s, first.value) } : null,
       asLeft: last ? { ...last, within: withinTolerance(s, last.value) } : null,

@@ -6,6 +6,7 @@ import { foldEvents, type SessionState } from '@/lib/session/fold';
 import { eventHash, verifyChain } from '@/lib/session/hash-chain';
 import { asFoundAsLeft, machineHistory, type HistorySessionInput } from '@/lib/session/history';
 import type { SessionStage } from '@/lib/session/stages';
+import { sessionSeries } from '@/lib/session/series';
 import { checkSessionFile, exportFilename, READING_COLUMNS, readingsCsv, sessionFileOf } from '@/lib/session/transfer';
 
 const TOL: SessionTolerances = { levelUrad: 20, twistUrad: 20, bowUrad: 20, sweepTirUm: 12.7 };
@@ -38,6 +39,7 @@ function hashedLog({ start = Date.UTC(2026, 0, 5, 8), screwLabel = 'FL', toleran
     level: (stage: SessionStage, axis: 'x' | 'y', positionMm: number, slopeUrad: number) =>
       add('reading:recorded', { kind: 'level', stage, axis, positionMm, divisions: slopeUrad / 20, slopeUrad }),
     height: (stage: SessionStage, screwId: string, heightMm: number) => add('reading:recorded', { kind: 'height', stage, screwId, heightMm }),
+    sweep: (stage: SessionStage, um: { frontUm: number; backUm: number; leftUm: number; rightUm: number }) => add('reading:recorded', { kind: 'sweep', stage, diameterMm: 254, ...um }),
     moveDone: (stage: SessionStage) => {
       const moveId = randomUUID();
       add('move:sent', { moveId, screwId: screws[2]!.id, stage, raiseUm: 30, turns: 0.01, degrees: 3.6, recommended: true }, 'expert');
@@ -90,6 +92,29 @@ describe('asFoundAsLeft (as-found = first completed round, as-left = last: Level
     expect(ends.bow.asFound).toBeNull();
     expect(ends.sweepTir.asLeft).toBeNull();
     expect(ends.tiltX.asFound!.seq).toBeLessThan(ends.tiltX.asLeft!.seq);
+  });
+});
+
+describe('asFoundAsLeft after a lock-and-as-left round', () => {
+  it('takes the as-left from the last lock-and-as-left round, as the summary does, even when a later round of another stage completes', () => {
+    const l = twoRoundSession();
+    l.stage('lock-as-left');
+    [-250, 0, 250].forEach((p, i) => l.level('lock-as-left', 'x', p, [3, 1, -1][i]!));
+    [-250, -125, 0, 125, 250].forEach((p) => l.level('lock-as-left', 'y', p, 2));
+    l.sweep('lock-as-left', { frontUm: 1, backUm: 0, leftUm: 0, rightUm: 4 });
+    // Rework afterwards: a twist round that completes after the lock round.
+    l.stage('twist');
+    l.moveDone('twist');
+    [-250, 0, 250].forEach((p, i) => l.level('twist', 'x', p, [30, 0, -30][i]!));
+    l.level('twist', 'y', 0, 0);
+    const ends = asFoundAsLeft(foldEvents(l.events));
+    expect(ends.tiltX.asLeft).toMatchObject({ value: 1, stage: 'lock-as-left' });
+    expect(ends.twist.asLeft).toMatchObject({ value: 4, stage: 'lock-as-left', within: true }); // 3 − (−1) µrad
+    expect(ends.twist.asFound?.value).toBeCloseTo(12, 9);
+    // The series' last twist point is the rework round's 60 µrad, not the as-left.
+    expect(sessionSeries(foldEvents(l.events)).twist.points.at(-1)?.value).toBe(60);
+    // Four-point sweep: TIR is the largest opposite difference, here right − left = 4 µm (TRADE.md §6).
+    expect(ends.sweepTir.asLeft).toMatchObject({ value: 4, stage: 'lock-as-left' });
   });
 });
 
