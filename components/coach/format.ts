@@ -4,9 +4,12 @@ import type { Part } from '@/lib/session/events';
 /** What the viewer is in the session (the server's word for it): a participant's part, or a reader. */
 export type Standing = Part | 'reader';
 
+// One formatter for every call: toLocaleTimeString builds a new one each time, which a replay's long lists feel.
+const CLOCK = new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit', second: '2-digit' });
+
 /** A clock time for the session's logs, HH:MM:SS (the viewer's time zone). */
 export function clock(iso: string): string {
-  return new Date(iso).toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit', second: '2-digit' });
+  return CLOCK.format(new Date(iso));
 }
 
 /** A slope with its sign, in the user's units. */

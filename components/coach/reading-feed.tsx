@@ -29,17 +29,20 @@ type FeedProps = {
   /** The replay shows the feed as it stood at a moment: its own heading and empty text. */
   title?: string;
   emptyText?: string;
+  /** Show only the newest this many (the replay of a long session would otherwise draw thousands of rows per frame). */
+  limit?: number;
 };
 
 /** The readings as the technician records them, newest first. */
-export function ReadingFeed({ readings, screws, unitSystem, title = 'Readings, live', emptyText = 'Waiting for the technician’s first reading.' }: FeedProps) {
+export function ReadingFeed({ readings, screws, unitSystem, title = 'Readings, live', emptyText = 'Waiting for the technician’s first reading.', limit }: FeedProps) {
+  const shown = limit !== undefined && readings.length > limit ? readings.slice(-limit) : readings;
   return (
     <section aria-labelledby="feed-h" className="grid content-start gap-2 rounded-2xl border-2 border-rule bg-card p-3 text-sm">
       <h2 id="feed-h" className="text-lg font-bold">
         {title}
       </h2>
       <ol className="grid max-h-72 gap-1 overflow-auto" data-testid="reading-feed">
-        {[...readings].reverse().map((r) => {
+        {[...shown].reverse().map((r) => {
           const [what, value] = describe(r, screws, unitSystem);
           return (
             <li key={r.seq} className="flex flex-wrap justify-between gap-x-2 rounded-lg bg-paper px-3 py-1.5 tabular" title={STAGE_GUIDES[r.stage].title}>
@@ -49,6 +52,7 @@ export function ReadingFeed({ readings, screws, unitSystem, title = 'Readings, l
           );
         })}
         {readings.length === 0 && <li className="text-ink-soft">{emptyText}</li>}
+        {shown.length < readings.length && <li className="text-ink-soft">and {readings.length - shown.length} earlier readings</li>}
       </ol>
     </section>
   );

@@ -1,7 +1,7 @@
 'use client';
 
 import Link from 'next/link';
-import { useCallback, useEffect, useMemo, useRef, type ReactNode } from 'react';
+import { useCallback, useDeferredValue, useEffect, useMemo, useRef, type ReactNode } from 'react';
 import { DEFAULT_SWEEP_DIAMETER_MM } from '@/lib/leveling';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
 import { baseModelOf, learnedResponse } from '@/lib/session/advice';
@@ -53,25 +53,49 @@ function safely<T>(f: () => T, fallback: T): T {
   }
 }
 
-/** What the replay draws at one moment; computed only for the moment shown, and kept for the last few moments seen. */
-type Moment = {
-  state: SessionState;
-  model: ReturnType<typeof baseModelOf>;
-  verdict: ReturnType<typeof stageVerdict>;
-  series: ReturnType<typeof sessionSeries>;
-};
+/** The figures of a moment that take time to work out (the engine's base model, the chart series). */
+type Figures = { model: ReturnType<typeof baseModelOf>; series: ReturnType<typeof sessionSeries> };
 
-const MOMENTS_KEPT = 48;
+const KEPT = 48;
 
-function momentOf(index: ReplayIndex, seq: number, unitSystem: UnitSystem): Moment {
-  const state = stateAt(index, seq);
+/** The figures depend only on the readings and the moves' answers: moments with the same ones share them. */
+const figuresKey = (s: SessionState) => `${s.readings.length}:${s.moves.length}:${s.moves.reduce((n, m) => n + (m.status === 'pending' ? 0 : 1), 0)}`;
+
+function figuresOf(state: SessionState): Figures {
   const response = safely(() => learnedResponse(state), null);
-  return {
-    state,
-    model: safely(() => baseModelOf(state, response), null),
-    verdict: stageVerdict(state, state.stage, unitSystem),
-    series: sessionSeries(state),
-  };
+  return { model: safely(() => baseModelOf(state, response), null), series: sessionSeries(state) };
+}
+
+/** A small first-in first-out cache, emptied when the log (its index) changes. */
+function useKept<K, V>(owner: unknown) {
+  const kept = useRef({ owner, map: new Map<K, V>() });
+  if (kept.current.owner !== owner) kept.current = { owner, map: new Map() };
+  return useCallback((key: K, make: () => V): V => {
+    const map = kept.current.map;
+    const hit = map.get(key);
+    if (hit !== undefined) return hit;
+    const value = make();
+    map.set(key, value);
+    if (map.size > KEPT) map.delete(map.keys().next().value!);
+    return value;
+  }, []);
+}
+
+/** What the tilt view draws besides the shape: the moves of the stage, where the level lay last, the sweep circle. */
+function sceneOf(state: SessionState, unitSystem: UnitSystem) {
+  const byScrew = new Map<string, SceneMove>();
+  for (const m of state.moves) if (m.status === 'done' && m.stage === state.stage) byScrew.set(m.screwId, { screwId: m.screwId, turns: m.doneTurns ?? m.turns, status: 'done' });
+  for (const m of state.moves) if (m.status === 'pending') byScrew.set(m.screwId, { screwId: m.screwId, turns: m.turns, status: 'pending' });
+  const moves = [...byScrew.values()];
+  const lastLevel = state.readings.findLast((r) => r.kind === 'level');
+  const lastSweep = state.readings.findLast((r) => r.kind === 'sweep');
+  const sweepDiameterMm = lastSweep?.kind === 'sweep' ? lastSweep.diameterMm : DEFAULT_SWEEP_DIAMETER_MM;
+  const showSweep = state.stage === 'spindle-sweep' || lastSweep !== undefined;
+  const sweepLabel = `sweep circle ⌀${unitSystem === 'inch' ? `${(sweepDiameterMm / 25.4).toFixed(1)} in` : `${Math.round(sweepDiameterMm)} mm`}`;
+  const level = lastLevel?.kind === 'level' ? { axis: lastLevel.axis, positionMm: lastLevel.positionMm } : null;
+  const sweep = showSweep ? { diameterMm: sweepDiameterMm, label: sweepLabel } : null;
+  const key = JSON.stringify([moves, level, sweep]);
+  return { moves, level, sweep, key };
 }
 
 /** Marks of the record itself along the timeline: each end, return, rework taken up, and the approval. */
@@ -79,6 +103,12 @@ function recordMarks(index: ReplayIndex): RecordMark[] {
   const kinds: Record<string, RecordMark['kind']> = { 'session:ended': 'ended', 'review:returned': 'returned', 'session:resumed': 'resumed', 'review:approved': 'approved' };
   return index.events.flatMap((e) => (kinds[e.type] ? [{ seq: e.seq, kind: kinds[e.type]! }] : []));
 }
+
+/** Notes drawn at a moment (the newest): a long session's chat would otherwise be drawn again on most seeks. */
+const NOTES_SHOWN = 60;
+
+/** Rows of the reading feed drawn at a moment (the newest). */
+const FEED_ROWS = 50;
 
 const ROLE_WORDS: Record<string, string> = { reviewer: 'A reviewer', admin: 'An admin', technician: 'The technician', expert: 'An expert' };
 
@@ -94,21 +124,16 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
   const player = usePlayer(timeline?.clock ?? null, timeline?.totalMs ?? 0);
   const { seq } = player;
 
-  const cache = useRef(new Map<number, Moment>());
-  const cachedFor = useRef<ReplayIndex | null>(null);
-  const moment = useMemo(() => {
-    if (!index) return null;
-    if (cachedFor.current !== index) {
-      cache.current.clear();
-      cachedFor.current = index;
-    }
-    const kept = cache.current.get(seq);
-    if (kept) return kept;
-    const m = momentOf(index, seq, unitSystem);
-    cache.current.set(seq, m);
-    if (cache.current.size > MOMENTS_KEPT) cache.current.delete(cache.current.keys().next().value!);
-    return m;
-  }, [index, seq, unitSystem]);
+  // The moment itself (state, stage verdict) follows the playhead at once: a snapshot plus at most a few hundred events.
+  // The engine's figures follow it as a deferred value, so a seek or a frame of playback never waits for them.
+  const keptStates = useKept<number, SessionState>(index);
+  const keptFigures = useKept<string, Figures>(index);
+  const state = useMemo(() => (index ? keptStates(seq, () => stateAt(index, seq)) : null), [index, keptStates, seq]);
+  const verdict = useMemo(() => (state ? stageVerdict(state, state.stage, unitSystem) : null), [state, unitSystem]);
+  const figuresSeq = useDeferredValue(seq);
+  const figuresState = useMemo(() => (index ? keptStates(figuresSeq, () => stateAt(index, figuresSeq)) : null), [figuresSeq, index, keptStates]);
+  const figures = useMemo(() => (figuresState ? keptFigures(figuresKey(figuresState), () => figuresOf(figuresState)) : null), [figuresState, keptFigures]);
+  const figuresLag = figuresSeq !== seq;
 
   const markers = useMemo(() => (timeline ? stageMarkers(timeline.clock) : []), [timeline]);
   const marks = useMemo(() => (index ? recordMarks(index) : []), [index]);
@@ -134,7 +159,7 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
 
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
-      const t = e.target as HTMLElement | null;
+      const t = e.target instanceof HTMLElement ? e.target : null;
       if (t && (t.isContentEditable || ['INPUT', 'TEXTAREA', 'SELECT'].includes(t.tagName) || t.closest('dialog[open]') || t.tagName === 'CANVAS')) return;
       if (e.altKey || e.ctrlKey || e.metaKey) return;
       if (e.key === ' ') {
@@ -167,7 +192,7 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
     },
     [index, selfId],
   );
-  const model = moment?.model ?? null;
+  const model = figures?.model ?? null;
   const shapeKey = model ? [model.state.tiltXUrad, model.state.tiltYUrad, model.state.twistUrad, model.state.bowUrad].map((v) => v.toFixed(3)).join(',') : 'none';
   // One object while the figures are unchanged, so the tilt view redraws only when the shape moves (as in the coach view).
   const shape = useMemo(
@@ -175,6 +200,36 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
     [shapeKey],
   );
   const momentLabel = useCallback((s: number) => (index ? `seq ${s} · ${elapsed(realOffsetOf(index, s))}` : `seq ${s}`), [index]);
+
+  // The lists only grow or change with their own events: each is drawn again only when its length (or, for moves,
+  // the answers) changes, not on every step of the playhead. A stateAt copy is a new object each time, hence the keys.
+  const record = index?.final ?? null;
+  const screws = record && record.screws.length > 0 ? record.screws : fallbackScrews;
+  const readingsKey = state?.readings.length ?? 0;
+  const movesKey = state ? figuresKey(state) : '';
+  const notesKey = state?.notes.length ?? 0;
+  const photosKey = state?.photos.length ?? 0;
+  const feedEl = useMemo(
+    () => state && <ReadingFeed readings={state.readings} screws={screws} unitSystem={unitSystem} title="Readings at this moment" emptyText="No readings yet at this moment." limit={FEED_ROWS} />,
+    [readingsKey, screws, unitSystem],
+  );
+  const movesEl = useMemo(() => state && <MovesList moves={state.moves} screws={screws} unitSystem={unitSystem} />, [movesKey, screws, unitSystem]);
+  const notesEl = useMemo(
+    () => state && record && <NotesPanel notes={state.notes.slice(-NOTES_SHOWN)} participants={record.participants} selfId={selfId} canPost={false} onPost={async () => undefined} />,
+    [notesKey, record, selfId],
+  );
+  const photosEl = useMemo(() => state && <PhotosPanel sessionId={sessionId} photos={state.photos} />, [photosKey, sessionId]);
+  // The tilt view is the heaviest to draw: it follows the deferred moment with the base model it shows.
+  const scene = figuresState ? sceneOf(figuresState, unitSystem) : null;
+  const travel = figuresState?.travelMm ?? travelMm;
+  const tiltEl = useMemo(
+    () =>
+      scene && (
+        <TiltPanel screws={screws} table={table} travelMm={travel} shape={shape} level={scene.level} sweep={scene.sweep} moves={scene.moves} unitSystem={unitSystem} />
+      ),
+    [scene?.key, screws, table, travel, shape, unitSystem],
+  );
+  const chartEl = useMemo(() => figures && <LiveChart series={figures.series} unitSystem={unitSystem} spanMs={spanMs} />, [figures, unitSystem, spanMs]);
 
   if (error) {
     return (
@@ -189,30 +244,13 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
       </main>
     );
   }
-  if (loading || !index || !timeline || !moment) {
+  if (loading || !index || !record || !timeline || !state || !verdict || !figures) {
     return (
       <main className="grid place-items-center p-10 text-ink-soft" aria-busy="true">
         Loading the session’s log…
       </main>
     );
   }
-
-  const { state, verdict, series } = moment;
-  const record = index.final;
-  const screws = state.screws.length > 0 ? state.screws : fallbackScrews;
-  const travel = state.travelMm ?? travelMm;
-  const sceneMoves: SceneMove[] = [];
-  {
-    const byScrew = new Map<string, SceneMove>();
-    for (const m of state.moves) if (m.status === 'done' && m.stage === state.stage) byScrew.set(m.screwId, { screwId: m.screwId, turns: m.doneTurns ?? m.turns, status: 'done' });
-    for (const m of state.moves) if (m.status === 'pending') byScrew.set(m.screwId, { screwId: m.screwId, turns: m.turns, status: 'pending' });
-    sceneMoves.push(...byScrew.values());
-  }
-  const lastLevel = state.readings.findLast((r) => r.kind === 'level');
-  const lastSweep = state.readings.findLast((r) => r.kind === 'sweep');
-  const sweepDiameterMm = lastSweep?.kind === 'sweep' ? lastSweep.diameterMm : DEFAULT_SWEEP_DIAMETER_MM;
-  const showSweep = state.stage === 'spindle-sweep' || lastSweep !== undefined;
-  const sweepLabel = `sweep circle ⌀${unitSystem === 'inch' ? `${(sweepDiameterMm / 25.4).toFixed(1)} in` : `${Math.round(sweepDiameterMm)} mm`}`;
 
   return (
     <main className="grid gap-4 p-4 xl:grid-cols-[minmax(0,1fr)_28rem] min-[1400px]:grid-cols-[minmax(0,1fr)_31rem]">
@@ -257,20 +295,18 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
         />
 
       <div className="grid min-w-0 content-start gap-4" data-testid="replay-moment" data-seq={seq}>
-        <div className="grid gap-3 xl:grid-cols-[minmax(0,1fr)_12rem] 2xl:grid-cols-[minmax(0,1fr)_14rem]">
-          <TiltPanel
-            screws={screws}
-            table={table}
-            travelMm={travel}
-            shape={shape}
-            level={lastLevel?.kind === 'level' ? { axis: lastLevel.axis, positionMm: lastLevel.positionMm } : null}
-            sweep={showSweep ? { diameterMm: sweepDiameterMm, label: sweepLabel } : null}
-            moves={sceneMoves}
-            unitSystem={unitSystem}
-          />
+        <div
+          className={`grid gap-3 transition-opacity xl:grid-cols-[minmax(0,1fr)_12rem] 2xl:grid-cols-[minmax(0,1fr)_14rem] ${figuresLag ? 'opacity-80' : ''}`}
+          data-testid="replay-figures"
+          data-seq={figuresSeq}
+          aria-busy={figuresLag}
+        >
+          {tiltEl}
           <BaseNumbers model={model} tolerances={tolerancesOf(state)} unitSystem={unitSystem} />
         </div>
-        <LiveChart series={series} unitSystem={unitSystem} spanMs={spanMs} />
+        <div className={figuresLag ? 'opacity-80' : ''}>
+          {chartEl}
+        </div>
         <div className="grid gap-4 lg:grid-cols-2">
           <div className="grid content-start gap-2">
             <p className="flex flex-wrap gap-x-4 text-sm">
@@ -281,9 +317,9 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
                 Y reading then: <b className="tabular" data-testid="slope-y">{state.slopeYUrad === null ? '—' : formatSlope(state.slopeYUrad, unitSystem)}</b>
               </span>
             </p>
-            <ReadingFeed readings={state.readings} screws={screws} unitSystem={unitSystem} title={`Readings up to seq ${seq}`} emptyText="No readings yet at this moment." />
+            {feedEl}
           </div>
-          <PhotosPanel sessionId={sessionId} photos={state.photos} />
+          {photosEl}
         </div>
       </div>
 
@@ -299,8 +335,8 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
           onSeek={seek}
           onStored={refresh}
         />
-        <MovesList moves={state.moves} screws={screws} unitSystem={unitSystem} />
-        <NotesPanel notes={state.notes} participants={record.participants} selfId={selfId} canPost={false} onPost={async () => undefined} />
+        {movesEl}
+        {notesEl}
       </aside>
 
       {summary && (

@@ -15,6 +15,8 @@ type Ctx = { sessionId: string; worked: WorkedSession };
 
 const readout = (page: Page) => page.getByTestId('replay-readout');
 const shownSeq = async (page: Page) => Number(await readout(page).getAttribute('data-seq'));
+/** The tilt view, base model and charts follow the playhead as a deferred value: wait until they show its moment. */
+const figuresSettled = async (page: Page) => expect(page.getByTestId('replay-figures')).toHaveAttribute('data-seq', String(await shownSeq(page)));
 const statusChip = (page: Page) => page.getByTestId('review-panel').getByTestId('record-status');
 
 /** Opens a session on a six-screw demo machine with the demo expert and works it to its end. */
@@ -75,14 +77,16 @@ async function seeks(page: Page, { worked }: Ctx) {
   await expect(readout(page)).toHaveAttribute('data-seq', String(roughSeq));
   await expect(readout(page)).toContainText(`seq ${roughSeq} of ${worked.state.seq}`);
   const readingsAtRough = worked.state.readings.filter((r) => r.seq <= roughSeq).length;
-  await expect(feed.filter({ hasText: '#' })).toHaveCount(readingsAtRough);
+  await expect(feed.filter({ hasText: '#' })).toHaveCount(Math.min(50, readingsAtRough));
+  await figuresSettled(page);
   const modelAtRough = await page.getByTestId('base-numbers').innerText();
 
   const last = markerOf('Lock and as-left');
   const lastSeq = Number(await last.getAttribute('data-seq'));
   await last.click();
   await expect(readout(page)).toHaveAttribute('data-seq', String(lastSeq));
-  await expect(feed.filter({ hasText: '#' })).toHaveCount(worked.state.readings.filter((r) => r.seq <= lastSeq).length);
+  await expect(feed.filter({ hasText: '#' })).toHaveCount(Math.min(50, worked.state.readings.filter((r) => r.seq <= lastSeq).length));
+  await figuresSettled(page);
   expect(await page.getByTestId('base-numbers').innerText()).not.toBe(modelAtRough);
 
   // One event back with the keyboard.
