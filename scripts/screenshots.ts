@@ -105,7 +105,67 @@ if (demo) {
   await expert.screenshot({ path: `${out}/coach-desktop.png` });
 } else console.log('no live demo session: coach-desktop.png not taken');
 
+// The replay of the walkthrough machine's record waiting for review (the seed's demo record): two comments pinned to
+// moments, the playhead mid-way through rough level; then the approval form with a typed name and a drawn signature
+// (not sent, so the record stays waiting for review).
+const reviewer = await signIn('reviewer', { width: 1440, height: 900 });
+const records = ((await (await reviewer.request.get(`${base}/api/sessions`)).json()) as { sessions: { id: string; state: string; lastSeq: number; machine: { serial: string } }[] }).sessions
+  .filter((x) => x.machine.serial === DEMO_MACHINE_SERIAL && (x.state === 'ended' || x.state === 'in_review'))
+  .sort((a, b) => b.lastSeq - a.lastSeq);
+let replayPath: string | null = null;
+if (records[0]) {
+  replayPath = `/sessions/${records[0].id}/replay`;
+  await reviewer.goto(`${base}${replayPath}`);
+  const readout = reviewer.getByTestId('replay-readout');
+  await readout.waitFor({ timeout: 120_000 });
+  const marker = (title: string) => reviewer.getByTestId('stage-marker').filter({ hasText: new RegExp(`^${title}`) });
+  if ((await reviewer.getByTestId('timeline-pin').count()) === 0) {
+    for (const [stage, text] of [
+      ['5 Twist', 'Twist came in at the limit on the first round: was the level reversed at the back station?'],
+      ['9 Spindle sweep', 'Back reading of the sweep looks high against the others; a photo of the indicator set-up would help.'],
+    ] as const) {
+      await marker(stage).click();
+      for (let i = 0; i < 3; i++) await reviewer.keyboard.press('ArrowRight');
+      await reviewer.locator('textarea[name="comment"]').fill(text);
+      await reviewer.getByRole('button', { name: /^Pin comment at/ }).click();
+      await reviewer.getByTestId('review-comment').filter({ hasText: text.slice(0, 30) }).waitFor();
+    }
+  }
+  await marker('4 Rough level').click();
+  for (let i = 0; i < 9; i++) await reviewer.keyboard.press('ArrowRight');
+  await reviewer.waitForFunction(() => {
+    const seq = document.querySelector('[data-testid="replay-readout"]')?.getAttribute('data-seq');
+    return seq !== null && document.querySelector('[data-testid="replay-figures"]')?.getAttribute('data-seq') === seq;
+  });
+  await reviewer.locator('canvas').first().waitFor();
+  await reviewer.waitForTimeout(1500);
+  await reviewer.screenshot({ path: `${out}/replay-desktop.png` });
+
+  // The review panel whole, in a window tall enough that the sticky timeline covers none of it.
+  await reviewer.setViewportSize({ width: 1440, height: 2200 });
+  await reviewer.evaluate(() => window.scrollTo(0, 0));
+  await reviewer.locator('input[name="approver-name"]').fill(DEMO_USERS.find((u) => u.role === 'reviewer')!.name);
+  const pad = reviewer.getByTestId('signature-pad');
+  await reviewer.waitForTimeout(300);
+  const box = (await pad.boundingBox())!;
+  const at = (fx: number, fy: number) => [box.x + box.width * fx, box.y + box.height * fy] as const;
+  for (const stroke of [
+    [at(0.08, 0.72), at(0.12, 0.3), at(0.17, 0.7), at(0.22, 0.35), at(0.27, 0.68), at(0.33, 0.4), at(0.38, 0.62)],
+    [at(0.45, 0.45), at(0.5, 0.7), at(0.56, 0.32), at(0.62, 0.66), at(0.7, 0.38), at(0.78, 0.6), at(0.86, 0.5)],
+    [at(0.1, 0.82), at(0.9, 0.78)],
+  ]) {
+    await reviewer.mouse.move(...stroke[0]!);
+    await reviewer.mouse.down();
+    for (const p of stroke.slice(1)) await reviewer.mouse.move(...p, { steps: 8 });
+    await reviewer.mouse.up();
+  }
+  await reviewer.waitForTimeout(300);
+  await reviewer.getByTestId('review-panel').screenshot({ path: `${out}/review-approve.png` });
+  await reviewer.setViewportSize({ width: 1440, height: 900 });
+} else console.log('no record of the walkthrough machine waits for review: replay-desktop.png and review-approve.png not taken');
+
 console.log('JavaScript each page loads, until the network is idle (gzip -9):');
 console.log('  field view', await firstLoadJs(tech, `${sessionPath}/field`));
 console.log('  coach view', await firstLoadJs(expert, `${sessionPath}/coach`));
+if (replayPath) console.log('  replay', await firstLoadJs(reviewer, replayPath));
 await browser.close();

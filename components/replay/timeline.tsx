@@ -55,6 +55,17 @@ type Props = {
   className?: string;
 };
 
+/** Marks closer than `gap` of the track's width go side by side in one group, drawn ending at the group's last mark. */
+function groupMarks(marks: RecordMark[], place: (m: RecordMark) => number, gap = 0.08): RecordMark[][] {
+  const groups: RecordMark[][] = [];
+  for (const m of marks) {
+    const last = groups.at(-1);
+    if (last && place(m) - place(last.at(-1)!) < gap) last.push(m);
+    else groups.push([m]);
+  }
+  return groups;
+}
+
 const stageNo = (m: StageMarker) => SESSION_STAGES.indexOf(m.stage) + 1;
 
 /**
@@ -182,20 +193,27 @@ export function Timeline({ index, clock, totalMs, shortened, maxGapMs, seq, play
 
         {marks.length > 0 && (
           <div className="relative h-5" aria-label="The record’s marks" role="group">
-            {marks.map((m) => (
-              <button
-                key={m.seq}
-                type="button"
-                onClick={() => onSeek(m.seq)}
-                style={{ left: at(m.seq) }}
-                className="absolute top-0 -translate-x-full whitespace-nowrap rounded-b-md bg-steel px-1.5 text-xs font-semibold text-paper hover:bg-ink"
+            {groupMarks(marks, (m) => fractionOf(offsetOfSeq(clock, m.seq), totalMs)).map((g) => (
+              <div
+                key={g[0]!.seq}
+                style={{ left: at(g.at(-1)!.seq) }}
+                // Near the start a group hangs to the right of its place, elsewhere to the left, so it stays on the track.
+                className={`absolute top-0 flex gap-px ${fractionOf(offsetOfSeq(clock, g.at(-1)!.seq), totalMs) < 0.2 ? '' : '-translate-x-full'}`}
               >
-                {MARK_WORDS[m.kind]} #{m.seq}
-              </button>
+                {g.map((m) => (
+                  <button
+                    key={m.seq}
+                    type="button"
+                    onClick={() => onSeek(m.seq)}
+                    className="whitespace-nowrap rounded-b-md bg-steel px-1.5 text-xs font-semibold text-paper hover:bg-ink"
+                  >
+                    {MARK_WORDS[m.kind]} #{m.seq}
+                  </button>
+                ))}
+              </div>
             ))}
           </div>
         )}
-
       </section>
       <div className={`grid gap-1 ${className}`}>
         <ol aria-label="Stage markers: where each stage began" className="flex flex-wrap gap-1 text-sm">

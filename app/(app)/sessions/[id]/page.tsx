@@ -6,7 +6,7 @@ import { db } from '@/db/client';
 import { requirePageActor } from '@/lib/auth/session';
 import { can } from '@/lib/auth/policy';
 import { AppError } from '@/lib/errors';
-import { accessSession, type SessionAccess } from '@/lib/session/service';
+import { loadSessionFor } from '@/lib/session/service';
 import { StatusChip } from '@/components/review/record-status';
 
 export const metadata: Metadata = { title: 'Session' };
@@ -20,16 +20,16 @@ export default async function SessionPage({ params }: { params: Promise<{ id: st
   const { id } = await params;
   const actor = await requirePageActor(`/sessions/${id}`);
   if (!z.uuid().safeParse(id).success) notFound();
-  let access: SessionAccess;
+  let access: Awaited<ReturnType<typeof loadSessionFor>>;
   try {
-    access = await accessSession(db(), actor, id);
+    access = await loadSessionFor(db(), actor, id);
   } catch (e) {
     if (e instanceof AppError && e.status === 404) notFound();
     if (e instanceof AppError && e.status === 403) return <NotTakingPart />;
     throw e;
   }
   const own = access.standing === 'technician' ? `/sessions/${id}/field` : `/sessions/${id}/coach`;
-  const { state } = access.session;
+  const { state, machine } = access;
   if (state === 'live' || state === 'planned') redirect(own);
   const returnedToMe = state === 'returned' && access.standing === 'technician';
   const reviews = can(actor, 'session:review') && access.standing === 'reader';
@@ -39,6 +39,14 @@ export default async function SessionPage({ params }: { params: Promise<{ id: st
         <h1 className="text-2xl font-bold">Session record</h1>
         <StatusChip status={state} />
       </div>
+      <p>
+        <b>
+          {machine.model} · {machine.serial}
+        </b>
+        <span className="block text-ink-soft">
+          {machine.site.customer.name} · {machine.site.name} · technician {access.technician.name} · opened {access.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC
+        </span>
+      </p>
       {returnedToMe && (
         <p role="alert" data-testid="returned-marker" className="rounded-xl border-4 border-fail bg-fail/5 p-4 text-lg font-bold">
           The reviewer returned this session for rework. The field view shows why; take it up again there.
