@@ -34,6 +34,12 @@ export async function startFakes(root: string, bucket = 'levelwire'): Promise<Fa
             subject: mail.subject ?? '',
             text: mail.text ?? '',
             html: typeof mail.html === 'string' ? mail.html : '',
+            // Attachments are written beside the message, so tests (and /admin/mailbox) can open them.
+            attachments: mail.attachments.map((a, i) => {
+              const file = `${Date.now()}-${count}-${i}-${(a.filename ?? 'attachment').replace(/[^\w.-]+/g, '_')}`;
+              writeFileSync(path.join(mailbox, file), a.content);
+              return { filename: a.filename ?? null, contentType: a.contentType, size: a.size, file };
+            }),
           };
           writeFileSync(path.join(mailbox, `${record.id}.json`), JSON.stringify(record, null, 2));
           callback();

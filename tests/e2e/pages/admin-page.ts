@@ -28,14 +28,17 @@ export class AdminUsersPage {
   }
 }
 
+export type CaughtMail = { subject: string; text: string; attachments?: { filename: string | null; contentType: string; size: number; file: string }[] };
+
 /** The newest message the loopback mail fake caught for an address (JSON files in MAILBOX_DIR), waiting for it to arrive. */
-export async function readMail(to: string, timeoutMs = 10_000): Promise<{ subject: string; text: string }> {
+export async function readMail(to: string, timeoutMs = 10_000, newerThan = 0): Promise<CaughtMail> {
   const dir = process.env.MAILBOX_DIR;
   if (!dir) throw new Error('MAILBOX_DIR is not set: run the browser tests with the mail fake’s folder');
   const until = Date.now() + timeoutMs;
   for (;;) {
     for (const name of (await readdir(dir).catch(() => [] as string[])).filter((n) => n.endsWith('.json')).sort().reverse()) {
-      const mail = JSON.parse(await readFile(path.join(dir, name), 'utf8')) as { to: string[]; subject: string; text: string };
+      const mail = JSON.parse(await readFile(path.join(dir, name), 'utf8')) as CaughtMail & { to: string[]; receivedAt: string };
+      if (Date.parse(mail.receivedAt) < newerThan) continue;
       if (mail.to.some((a) => a.toLowerCase() === to.toLowerCase())) return mail;
     }
     if (Date.now() > until) throw new Error(`no e-mail to ${to} within ${timeoutMs} ms`);
