@@ -184,7 +184,7 @@ export function SummaryPanel({ sessionId, state, units, instruments, times }: Pr
         {[
           ['Adjustment rounds', String(summary.rounds.count)],
           ['Moves done', `${summary.moves.done} of ${summary.moves.sent}${summary.moves.cannot ? ` · ${summary.moves.cannot} can’t` : ''}`],
-          ['Duration', duration(summary.duration.totalMs)],
+          ['Opening to last entry', duration(summary.duration.totalMs)],
           ['Time live', summary.duration.liveMs === null ? 'unknown' : duration(summary.duration.liveMs)],
         ].map(([k, v]) => (
           <div key={k} className="rounded-lg bg-paper px-3 py-2">
@@ -229,7 +229,11 @@ export function SummaryPanel({ sessionId, state, units, instruments, times }: Pr
                 <span className="text-ink-soft">
                   calibrated {i.calibratedOn ?? 'date not recorded'}, due {i.calibrationDue}
                 </span>
-                <Chip verdict={calibrationLook[i.status].verdict}>{calibrationLook[i.status].label} at the visit</Chip>
+                {i.certificateLater ? (
+                  <Chip verdict="warn">Unknown at the visit: the certificate on file is later</Chip>
+                ) : (
+                  <Chip verdict={calibrationLook[i.status].verdict}>{calibrationLook[i.status].label} at the visit</Chip>
+                )}
                 {i.overrideReason && <span className="text-xs text-ink-soft">override: {i.overrideReason}</span>}
               </li>
             ))}

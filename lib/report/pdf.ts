@@ -415,7 +415,7 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
     ['Adjustment rounds', `${summary.rounds.count} (a round: moves answered done one after another, closed by the readings that check them)`],
     ['Moves', `${summary.moves.sent} sent, ${summary.moves.done} done, ${summary.moves.cannot} could not be made, ${summary.moves.pending} left unanswered`],
     ['Started', summary.duration.startedAt ? utcText(summary.duration.startedAt) : 'unknown'],
-    ['Duration', summary.duration.totalMs === null ? 'unknown' : `${durationText(summary.duration.totalMs)} from first to last event`],
+    ['Duration', summary.duration.totalMs === null ? 'unknown' : `${durationText(summary.duration.totalMs)} from opening to the last entry, review included`],
     ['Time live', summary.duration.liveMs === null ? `unknown (${summary.duration.liveReason ?? ''})` : durationText(summary.duration.liveMs)],
     ['Photos', summary.photos.length === 0 ? 'none' : summary.photos.map((p) => `${p.caption || 'photo'} (${STAGE_GUIDES[p.stage].title})`).join('; ')],
   ]);
@@ -438,7 +438,7 @@ export function renderReportPdf(input: ReportInput): Promise<Buffer> {
         i.serial,
         i.calibratedOn ?? 'not recorded',
         i.calibrationDue,
-        { text: i.status === 'current' ? 'in calibration' : i.status === 'due-soon' ? 'due soon' : 'past due', verdict: i.status === 'expired' ? false : undefined, note: i.overrideReason ? `used by override: ${i.overrideReason}` : undefined },
+        { text: i.certificateLater ? 'unknown: certificate on file is later' : i.status === 'current' ? 'in calibration' : i.status === 'due-soon' ? 'due soon' : 'past due', verdict: i.status === 'expired' && !i.certificateLater ? false : undefined, note: i.overrideReason ? `used by override: ${i.overrideReason}` : undefined },
       ]),
     );
 

@@ -98,6 +98,11 @@ export type InstrumentRow = InstrumentFact & {
   status: CalibrationStatus;
   /** The day the status is judged on (YYYY-MM-DD, UTC). */
   judgedOn: string;
+  /**
+   * The certificate on file was issued after that day (the instrument was calibrated again since): the status is
+   * then unknown, since the certificate in force at the visit is not on file.
+   */
+  certificateLater: boolean;
 };
 
 /** A stretch of time the session was live: opened or resumed, until ended (or its last event, when still live). */
@@ -281,7 +286,7 @@ function instrumentRows(facts: SummaryFacts, startedAt: string | null): Instrume
   const judgedOn = startedAt ? todayUtc(new Date(startedAt)) : null;
   return (facts.instruments ?? []).map((i) => {
     const on = judgedOn ?? i.calibrationDue;
-    return { ...i, status: calibrationStatus(i.calibrationDue, on), judgedOn: on };
+    return { ...i, status: calibrationStatus(i.calibrationDue, on), judgedOn: on, certificateLater: i.calibratedOn !== null && i.calibratedOn > on };
   });
 }
 

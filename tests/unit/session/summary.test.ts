@@ -254,6 +254,21 @@ describe('summarizeSession on hand-made logs', () => {
       ['b', 'expired', '2026-03-03'],
       ['c', 'current', '2026-03-03'],
     ]);
+    expect(s.instruments.map((i) => i.certificateLater)).toEqual([false, false, false]);
+  });
+
+  it('calls the status at the visit unknown when the certificate on file was issued after the session’s day', () => {
+    const l = log();
+    const s = summarizeSession(foldEvents(l.events), {
+      instruments: [
+        { kind: 'level', model: 'L', serial: 'later', calibratedOn: '2026-03-04', calibrationDue: '2027-03-04' },
+        { kind: 'level', model: 'L', serial: 'same-day', calibratedOn: '2026-03-03', calibrationDue: '2027-03-03' },
+      ],
+    });
+    expect(s.instruments.map((i) => [i.serial, i.certificateLater])).toEqual([
+      ['later', true],
+      ['same-day', false],
+    ]);
   });
 
   it('lists the photos with their captions and stages', () => {
