@@ -144,6 +144,7 @@ async function technicianTakesItUp(field: Page, sessionId: string) {
   const row = field.getByTestId('session-row').filter({ has: field.locator(`a[href="/sessions/${sessionId}"]`) });
   await expect(row.getByTestId('returned-marker')).toBeVisible();
   await row.locator(`a[href="/sessions/${sessionId}"]`).click();
+  await field.waitForURL((u) => u.pathname === `/sessions/${sessionId}`);
   await expect(field.getByTestId('returned-marker')).toBeVisible();
   await field.getByRole('link', { name: 'Open the field view to take it up again' }).click();
   await field.waitForURL(`**/sessions/${sessionId}/field`);
