@@ -1,7 +1,7 @@
 'use client';
 
 import Link from 'next/link';
-import { useCallback, useDeferredValue, useEffect, useMemo, useRef, type ReactNode } from 'react';
+import { useCallback, useDeferredValue, useEffect, useMemo, useRef } from 'react';
 import { DEFAULT_SWEEP_DIAMETER_MM } from '@/lib/leveling';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
 import { baseModelOf, learnedResponse } from '@/lib/session/advice';
@@ -10,6 +10,7 @@ import type { SessionScrew } from '@/lib/session/events';
 import type { SessionState } from '@/lib/session/fold';
 import { countThrough, stageMarkers, stateAt, type ReplayIndex } from '@/lib/session/replay';
 import { sessionSeries } from '@/lib/session/series';
+import { timesOf, type InstrumentFact } from '@/lib/session/summary';
 import { BaseNumbers } from '@/components/coach/base-numbers';
 import type { Standing } from '@/components/coach/format';
 import { LiveChart } from '@/components/coach/live-chart';
@@ -19,7 +20,10 @@ import { PhotosPanel } from '@/components/coach/photos-panel';
 import { ReadingFeed } from '@/components/coach/reading-feed';
 import { StagePanel } from '@/components/coach/stage-panel';
 import { TiltPanel } from '@/components/coach/tilt-panel';
+import { ReportActions } from '@/components/report/report-actions';
+import { SummaryPanel } from '@/components/report/summary-panel';
 import { ReviewPanel } from '@/components/review/review-panel';
+import { ExportLinks } from '@/components/session/export-links';
 import { StatusChip } from '@/components/review/record-status';
 import type { SceneMove } from '@/components/viewer/tilt-view';
 import { elapsed, lastSeqOf, MAX_GAP_MS, realOffsetOf, timelineOf } from './player-clock';
@@ -40,8 +44,8 @@ type Props = {
   travelMm: number;
   /** A reviewer or admin reading the session: comments, returns and approves. */
   canReview: boolean;
-  /** The record's summary and report actions, placed in the lower row when given. */
-  summary?: ReactNode;
+  /** The visit's instruments with their calibration dates, for the summary. */
+  instruments: InstrumentFact[];
 };
 
 /** The engine can refuse a model it cannot fit; the replay then shows none rather than failing. */
@@ -118,7 +122,7 @@ const ROLE_WORDS: Record<string, string> = { reviewer: 'A reviewer', admin: 'An 
  * log is loaded and indexed once; each moment is a snapshot plus at most a few hundred events (stateAt), and the
  * figures are worked out only for the moment shown.
  */
-export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLabel, technicianName, fallbackScrews, table, travelMm, canReview, summary }: Props) {
+export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLabel, technicianName, fallbackScrews, table, travelMm, canReview, instruments }: Props) {
   const { index, error, loading, refresh } = useReplayLog(sessionId);
   const timeline = useMemo(() => (index ? timelineOf(index, MAX_GAP_MS) : null), [index]);
   const player = usePlayer(timeline?.clock ?? null, timeline?.totalMs ?? 0);
@@ -228,6 +232,12 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
         <TiltPanel screws={screws} table={table} travelMm={travel} shape={shape} level={scene.level} sweep={scene.sweep} moves={scene.moves} unitSystem={unitSystem} />
       ),
     [scene?.key, screws, table, travel, shape, unitSystem],
+  );
+  // The summary is of the whole record (its final state), not of the playhead's moment.
+  const times = useMemo(() => (index ? timesOf(index.events) : undefined), [index]);
+  const summaryEl = useMemo(
+    () => record && <SummaryPanel sessionId={sessionId} state={record} units={unitSystem} instruments={instruments} times={times} />,
+    [record, sessionId, unitSystem, instruments, times],
   );
   const chartEl = useMemo(() => figures && <LiveChart series={figures.series} unitSystem={unitSystem} spanMs={spanMs} />, [figures, unitSystem, spanMs]);
 
@@ -339,11 +349,13 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
         {notesEl}
       </aside>
 
-      {summary && (
-        <section aria-label="Record summary" className="grid min-w-0 gap-4 xl:col-span-2">
-          {summary}
-        </section>
-      )}
+      <section aria-label="The record as a whole" className="grid min-w-0 gap-4 xl:col-span-2">
+        <div className="flex flex-wrap items-center justify-between gap-3">
+          <ReportActions sessionId={sessionId} status={record.status} canSend={canReview} />
+          <ExportLinks sessionId={sessionId} />
+        </div>
+        {summaryEl}
+      </section>
     </main>
   );
 }

@@ -197,6 +197,7 @@ export async function listVisitInstruments(db: Db, { visitId }: { visitId: strin
       serial: instruments.serial,
       sensitivityValue: instruments.sensitivityValue,
       sensitivityUnit: instruments.sensitivityUnit,
+      calibratedOn: instruments.calibratedOn,
       calibrationDue: instruments.calibrationDue,
       overrideReason: visitInstruments.overrideReason,
       overrideAt: visitInstruments.overrideAt,

@@ -6,7 +6,8 @@
 import { and, asc, eq } from 'drizzle-orm';
 import type { Db } from '@/db/client';
 import { listEventsBySession } from '@/db/queries/events';
-import { contacts, customers, instruments, levelingSessions, machines, organisations, sites, users, visitInstruments, visits } from '@/db/schema';
+import { listVisitInstruments } from '@/db/queries/visits';
+import { contacts, customers, levelingSessions, machines, organisations, sites, users, visits } from '@/db/schema';
 import type { SessionEvent } from '@/lib/session/events';
 import type { InstrumentFact } from '@/lib/session/summary';
 
@@ -23,6 +24,11 @@ export type ReportFacts = {
   instruments: InstrumentFact[];
   events: SessionEvent[];
 };
+
+/** An instrument chosen for the visit, as the summary judges it. */
+export function instrumentFact(i: Awaited<ReturnType<typeof listVisitInstruments>>[number]): InstrumentFact {
+  return { kind: i.kind, model: i.model, serial: i.serial, calibratedOn: i.calibratedOn, calibrationDue: i.calibrationDue, overrideReason: i.overrideReason };
+}
 
 /** The report's facts for one session, or null when there is no such session (in `organisationId`, when given). */
 export async function loadReportFacts(db: Db, { sessionId, organisationId }: { sessionId: string; organisationId?: string }): Promise<ReportFacts | null> {
@@ -59,21 +65,7 @@ export async function loadReportFacts(db: Db, { sessionId, organisationId }: { s
       .where(and(eq(contacts.customerId, row.customer.id), eq(contacts.organisationId, session.organisationId)))
       .orderBy(asc(contacts.name)),
     visitId ? db.select({ scheduledFor: visits.scheduledFor }).from(visits).where(eq(visits.id, visitId)) : Promise.resolve([]),
-    visitId
-      ? db
-          .select({
-            kind: instruments.kind,
-            model: instruments.model,
-            serial: instruments.serial,
-            calibratedOn: instruments.calibratedOn,
-            calibrationDue: instruments.calibrationDue,
-            overrideReason: visitInstruments.overrideReason,
-          })
-          .from(visitInstruments)
-          .innerJoin(instruments, eq(instruments.id, visitInstruments.instrumentId))
-          .where(eq(visitInstruments.visitId, visitId))
-          .orderBy(asc(instruments.kind), asc(instruments.serial))
-      : Promise.resolve([]),
+    visitId ? listVisitInstruments(db, { visitId }) : Promise.resolve([]),
     listEventsBySession(db, { sessionId }),
   ]);
   return {
@@ -84,7 +76,7 @@ export async function loadReportFacts(db: Db, { sessionId, organisationId }: { s
     machine: row.machine,
     technician: row.technician,
     visit: visitRows[0] ?? null,
-    instruments: instrumentRows,
+    instruments: instrumentRows.map(instrumentFact),
     events,
   };
 }

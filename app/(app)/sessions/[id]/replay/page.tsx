@@ -1,5 +1,8 @@
 import type { Metadata } from 'next';
+import { db } from '@/db/client';
+import { listVisitInstruments } from '@/db/queries/visits';
 import { ReplayView } from '@/components/replay/replay-view';
+import { instrumentFact } from '@/lib/report/facts';
 import { can } from '@/lib/auth/policy';
 import { requirePageActor } from '@/lib/auth/session';
 import { loadSessionForPage } from '../load';
@@ -12,6 +15,7 @@ export default async function ReplayPage({ params }: { params: Promise<{ id: str
   const actor = await requirePageActor(`/sessions/${id}/replay`);
   const session = await loadSessionForPage(actor, id);
   const { machine } = session;
+  const instruments = session.visitId ? (await listVisitInstruments(db(), { visitId: session.visitId })).map(instrumentFact) : [];
   const fallbackScrews = machine.screws.map((s) => ({
     id: s.id,
     label: s.label,
@@ -33,6 +37,7 @@ export default async function ReplayPage({ params }: { params: Promise<{ id: str
       table={{ lengthMm: machine.tableLengthMm, widthMm: machine.tableWidthMm }}
       travelMm={machine.travelYMm}
       canReview={can(actor, 'session:review') && session.standing === 'reader'}
+      instruments={instruments}
     />
   );
 }
