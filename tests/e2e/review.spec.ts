@@ -1,6 +1,12 @@
+import { readFile } from 'node:fs/promises';
+import path from 'node:path';
 import { expect, test, type Page } from '@playwright/test';
+import { PDFParse } from 'pdf-parse';
+import { formatLength, formatSlope, type UnitSystem } from '../../lib/leveling/units';
 import type { SessionEvent } from '../../lib/session/events';
-import { foldEvents } from '../../lib/session/fold';
+import { foldEvents, type SessionState } from '../../lib/session/fold';
+import { summarizeSession } from '../../lib/session/summary';
+import { readMail } from './pages/admin-page';
 import { signedIn } from './pages/personas';
 import { cookieHeader, workSessionToEnd, type WorkedSession } from './pages/session-driver';
 
@@ -202,6 +208,71 @@ async function approves(page: Page, name: string) {
   await expect(approval.getByTestId('signature-svg').locator('path')).toHaveCount(2);
 }
 
+/** The text of a PDF, read back with pdf-parse (a library apart from the one that wrote it). */
+async function pdfText(bytes: Uint8Array): Promise<string> {
+  const parser = new PDFParse({ data: bytes });
+  try {
+    return (await parser.getText()).text;
+  } finally {
+    await parser.destroy();
+  }
+}
+
+/**
+ * The as-left figures the record's own summary gives (tilt X and Y, twist, bow, sweep TIR), as the views write them in
+ * `units` (lib/leveling/units display helpers): each must appear in the report's text.
+ */
+function asLeftFigures(state: SessionState, units: UnitSystem): string[] {
+  const rows = summarizeSession(state).measures.filter((m) => ['tiltX', 'tiltY', 'twist', 'bow', 'sweepTir'].includes(m.measure));
+  expect(rows.map((m) => m.measure).sort()).toEqual(['bow', 'sweepTir', 'tiltX', 'tiltY', 'twist']);
+  return rows.map((m) => {
+    expect(m.asLeft.value, `${m.measure} has an as-left value`).not.toBeNull();
+    const v = Math.abs(m.asLeft.value!);
+    return m.unit === 'urad' ? formatSlope(v, units) : formatLength(v, units);
+  });
+}
+
+/** The reviewer downloads the approved report: a PDF whose text holds the machine, the as-left figures, the signer and the chain head. */
+async function reportHoldsAsLeft(page: Page, sessionId: string, final: SessionState, units: UnitSystem) {
+  const res = await page.request.get(`/api/sessions/${sessionId}/report`);
+  expect(res.status()).toBe(200);
+  expect(res.headers()['content-type']).toBe('application/pdf');
+  const text = await pdfText(new Uint8Array(await res.body()));
+  for (const figure of asLeftFigures(final, units)) expect(text).toContain(figure);
+  expect(text).toContain('Rhea Quill');
+  const verify = (await (await page.request.get(`/api/sessions/${sessionId}/verify`)).json()) as { verdict: { ok: boolean; head: string } };
+  expect(verify.verdict.ok).toBe(true);
+  expect(text.replace(/\s+/g, '')).toContain(verify.verdict.head);
+  return text;
+}
+
+/**
+ * The reviewer e-mails the report to the customer's contact; the mail (read from the loopback fake's mailbox) carries
+ * the PDF, whose text holds the as-left figures, and a read-only link that opens the PDF without signing in.
+ */
+async function emailsReport(page: Page, sessionId: string, final: SessionState, units: UnitSystem) {
+  const { recipient } = (await (await page.request.get(`/api/sessions/${sessionId}/report/send`)).json()) as { recipient: { name: string; email: string } };
+  const since = Date.now();
+  await page.getByRole('button', { name: `E-mail the report to ${recipient.name}` }).click();
+  await expect(page.getByTestId('report-sent')).toContainText(recipient.email);
+  const mail = await readMail(recipient.email, 15_000, since);
+  const pdf = mail.attachments?.find((a) => a.contentType === 'application/pdf');
+  expect(pdf, 'the report attached as a PDF').toBeTruthy();
+  const attached = await pdfText(new Uint8Array(await readFile(path.join(process.env.MAILBOX_DIR!, pdf!.file))));
+  for (const figure of asLeftFigures(final, units)) expect(attached).toContain(figure);
+  const link = /https?:\/\/\S+\/api\/reports\/[A-Za-z0-9_.-]+/.exec(mail.text)?.[0];
+  expect(link, 'a read-only link in the mail').toBeTruthy();
+  // Signed out: a fresh request context with no cookies.
+  const anonymous = await page.context().browser()!.newContext();
+  try {
+    const res = await anonymous.request.get(new URL(new URL(link!).pathname, page.url()).toString());
+    expect(res.status()).toBe(200);
+    expect(res.headers()['content-type']).toBe('application/pdf');
+  } finally {
+    await anonymous.close();
+  }
+}
+
 test('a reviewer replays a finished session, returns it, and approves it after the technician’s rework', async ({ browser }) => {
   test.setTimeout(420_000);
   const tech = await signedIn(browser, 'technician', { width: 412, height: 915 });
@@ -235,6 +306,11 @@ test('a reviewer replays a finished session, returns it, and approves it after t
   expect(final.review.resumes).toHaveLength(1);
   expect(final.review.approval?.name).toBe('Rhea Quill');
   expect(final.review.approval?.signature.strokes).toHaveLength(2);
+
+  // The report: produced as a PDF holding the as-left figures, then e-mailed with a read-only link.
+  const units = ((await (await reviewer.page.request.get('/api/me')).json()) as { me: { unitSystem: UnitSystem } }).me.unitSystem;
+  await reportHoldsAsLeft(reviewer.page, ctx.sessionId, final, units);
+  await emailsReport(reviewer.page, ctx.sessionId, final, units);
 
   for (const c of [tech.context, expert.context, reviewer.context]) await c.close();
 });
