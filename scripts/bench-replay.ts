@@ -17,6 +17,7 @@ import { applyAllInPlace, foldEvents, snapshotOf } from '../lib/session/fold';
 import { eventHash, verifyChain } from '../lib/session/hash-chain';
 import { buildReplayIndex, stateAt } from '../lib/session/replay';
 import { sessionSeries } from '../lib/session/series';
+import { sessionFileOf } from '../lib/session/transfer';
 import type { SessionStage } from '../lib/session/stages';
 import { rigFor, syncRig, takeReading } from '../lib/session/virtual-technician';
 import { readingToSlopeUrad, reversalCheck } from '../lib/leveling/level';
@@ -110,9 +111,10 @@ try {
     loads.push(performance.now() - t);
   }
   const json = JSON.stringify({ events: loaded });
-  // `--save=<file>` keeps the log for profiling (node --cpu-prof) without the database.
+  // `--save=<file>` keeps the log as an export file: an admin imports it (/sessions/import) to replay it in a browser
+  // (scripts/bench-replay-browser.mjs), and `node --cpu-prof` can fold it without the database.
   const save = process.argv.find((a) => a.startsWith('--save='))?.split('=')[1];
-  if (save) writeFileSync(save, JSON.stringify(loaded));
+  if (save) writeFileSync(save, JSON.stringify(sessionFileOf({ id: sessionId, state: 'ended', machine: { id: machine!.id, label: null, model: machine!.model, serial: machine!.serial } }, loaded, new Date())));
   const parses = Array.from({ length: 7 }, () => time(() => JSON.parse(json))[1]);
   const verifies = Array.from({ length: 3 }, () => time(() => verifyChain(loaded))[1]);
   const verdict = verifyChain(loaded);

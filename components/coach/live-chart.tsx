@@ -61,7 +61,7 @@ function Chart({ series, system, t0, t1 }: { series: Series; system: UnitSystem;
           </text>
         ))}
         {pts.length > 1 && <polyline points={pts.map((p, i) => `${x(p.at)},${y(values[i]!)}`).join(' ')} fill="none" stroke="#2b3440" strokeWidth={1.5} />}
-        {pts.map((p, i) => (
+        {pts.map((p, i) => i < pts.length - MAX_DOTS ? null : (
           <circle key={p.seq} cx={x(p.at)} cy={y(Math.max(bottom, Math.min(top, values[i]!)))} r={4} fill={withinTolerance(series, p.value) ? '#1b7a3d' : '#b3261e'} stroke="#fff">
             <title>{`#${p.seq} ${STAGE_GUIDES[p.stage].title} ${clock(p.at)}: ${fmt(values[i]!)} ${unitOf(series, system)}`}</title>
           </circle>
@@ -86,6 +86,9 @@ function Chart({ series, system, t0, t1 }: { series: Series; system: UnitSystem;
  * axis (the replay passes the whole session's, so the axis stays put as the playhead moves); by default it runs from
  * the first point to the last.
  */
+/** Rounds drawn as dots (the latest); earlier ones are on the line only, so a long session keeps a light chart. */
+const MAX_DOTS = 80;
+
 export function LiveChart({ series, unitSystem, spanMs }: { series: Record<(typeof SERIES_MEASURES)[number], Series>; unitSystem: UnitSystem; spanMs?: { t0: number; t1: number } }) {
   const times = SERIES_MEASURES.flatMap((m) => series[m].points.map((p) => Date.parse(p.at)));
   const t0 = spanMs ? spanMs.t0 : times.length > 0 ? Math.min(...times) : 0;

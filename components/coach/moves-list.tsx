@@ -4,8 +4,11 @@ import type { SessionScrew } from '@/lib/session/events';
 import { STAGE_GUIDES } from '@/lib/session/stages';
 import { clock, raiseWords, signedDegrees, signedTurns } from './format';
 
-/** Every move sent, newest first, with its answer: pending, done (with what was turned), or can't (with why). */
-export function MovesList({ moves, screws, unitSystem }: { moves: MoveState[]; screws: SessionScrew[]; unitSystem: UnitSystem }) {
+/**
+ * Every move sent, newest first, with its answer: pending, done (with what was turned), or can't (with why). With
+ * `limit`, only the newest that many (the replay redraws the list at every seek; a long session has thousands).
+ */
+export function MovesList({ moves, screws, unitSystem, limit }: { moves: MoveState[]; screws: SessionScrew[]; unitSystem: UnitSystem; limit?: number }) {
   const label = (id: string) => screws.find((s) => s.id === id)?.label ?? 'a screw';
   const pending = moves.filter((m) => m.status === 'pending').length;
   return (
@@ -18,7 +21,7 @@ export function MovesList({ moves, screws, unitSystem }: { moves: MoveState[]; s
         <p className="text-ink-soft">No moves sent yet.</p>
       ) : (
         <ol className="grid max-h-72 gap-1 overflow-auto text-sm">
-          {[...moves].reverse().map((m) => (
+          {moves.slice(limit === undefined ? 0 : Math.max(0, moves.length - limit)).reverse().map((m) => (
             <li
               key={m.moveId}
               data-testid="move-row"
@@ -47,6 +50,11 @@ export function MovesList({ moves, screws, unitSystem }: { moves: MoveState[]; s
               </p>
             </li>
           ))}
+          {limit !== undefined && moves.length > limit && (
+            <li className="px-3 py-1 text-ink-soft" data-testid="moves-earlier">
+              {moves.length - limit} earlier moves not listed
+            </li>
+          )}
         </ol>
       )}
     </section>

@@ -10,6 +10,9 @@ const VERDICT_LOOK: Record<Verdict['status'], { text: string; cls: string }> = {
   incomplete: { text: 'Readings to take', cls: 'bg-rule text-ink' },
 };
 
+/** The latest stage entries listed (a long session enters stages thousands of times). */
+const STAGE_LOG_SHOWN = 30;
+
 /** The stage the technician is in, its verdict with the detail, where the level goes, and the stage log. */
 export function StagePanel({ state, verdict }: { state: SessionState; verdict: Verdict }) {
   const guide = STAGE_GUIDES[state.stage];
@@ -42,7 +45,10 @@ export function StagePanel({ state, verdict }: { state: SessionState; verdict: V
       <details className="text-sm">
         <summary className="cursor-pointer font-semibold">Stage log ({state.stageLog.length})</summary>
         <ol className="mt-1 grid gap-0.5">
-          {state.stageLog.map((s) => (
+          {state.stageLog.length > STAGE_LOG_SHOWN && (
+            <li className="text-ink-soft">{state.stageLog.length - STAGE_LOG_SHOWN} earlier entries not listed</li>
+          )}
+          {state.stageLog.slice(-STAGE_LOG_SHOWN).map((s) => (
             <li key={s.seq} className="flex justify-between gap-2 tabular">
               <span className="font-sans">{STAGE_GUIDES[s.stage].title}</span>
               <span>

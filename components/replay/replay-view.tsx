@@ -61,6 +61,8 @@ function safely<T>(f: () => T, fallback: T): T {
 type Figures = { model: ReturnType<typeof baseModelOf>; series: ReturnType<typeof sessionSeries> };
 
 const KEPT = 48;
+/** The newest moves listed at a moment (the list is drawn again at every seek). */
+const MOVES_SHOWN = 40;
 
 /** The figures depend only on the readings and the moves' answers: moments with the same ones share them. */
 const figuresKey = (s: SessionState) => `${s.readings.length}:${s.moves.length}:${s.moves.reduce((n, m) => n + (m.status === 'pending' ? 0 : 1), 0)}`;
@@ -217,7 +219,7 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
     () => state && <ReadingFeed readings={state.readings} screws={screws} unitSystem={unitSystem} title="Readings at this moment" emptyText="No readings yet at this moment." limit={FEED_ROWS} />,
     [readingsKey, screws, unitSystem],
   );
-  const movesEl = useMemo(() => state && <MovesList moves={state.moves} screws={screws} unitSystem={unitSystem} />, [movesKey, screws, unitSystem]);
+  const movesEl = useMemo(() => state && <MovesList moves={state.moves} screws={screws} unitSystem={unitSystem} limit={MOVES_SHOWN} />, [movesKey, screws, unitSystem]);
   const notesEl = useMemo(
     () => state && record && <NotesPanel notes={state.notes.slice(-NOTES_SHOWN)} participants={record.participants} selfId={selfId} canPost={false} onPost={async () => undefined} />,
     [notesKey, record, selfId],

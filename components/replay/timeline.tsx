@@ -1,6 +1,6 @@
 'use client';
 
-import { useRef } from 'react';
+import { memo, useMemo, useRef } from 'react';
 import { offsetOfSeq, type ReplayIndex, type StageMarker } from '@/lib/session/replay';
 import { STAGE_GUIDES, SESSION_STAGES } from '@/lib/session/stages';
 import { clock as clockTime } from '@/components/coach/format';
@@ -68,6 +68,72 @@ function groupMarks(marks: RecordMark[], place: (m: RecordMark) => number, gap =
 
 const stageNo = (m: StageMarker) => SESSION_STAGES.indexOf(m.stage) + 1;
 
+/** The narrowest band drawn on its own, as a fraction of the track. */
+const MIN_BAND = 0.002;
+/** Beyond this many stage entries the list under the track shows each stage once, with how often it was entered. */
+const LIST_ALL_UP_TO = 30;
+
+/** The stage list: every entry, or for a long session each stage's first entry with its count. */
+function listedMarkers(markers: StageMarker[]): { marker: StageMarker; times: number }[] {
+  if (markers.length <= LIST_ALL_UP_TO) return markers.map((marker) => ({ marker, times: 1 }));
+  const byStage = new Map<string, { marker: StageMarker; times: number }>();
+  for (const m of markers) {
+    const seen = byStage.get(m.stage);
+    if (seen) seen.times += 1;
+    else byStage.set(m.stage, { marker: m, times: 1 });
+  }
+  return [...byStage.values()];
+}
+
+/**
+ * One band per stage entered on the scrubber. Memoised: a long session enters stages thousands of times, and the bands
+ * change only with the log, not with the playhead (measured with scripts/bench-replay-browser.mjs).
+ */
+const StageBands = memo(function StageBands({ markers, totalMs }: { markers: StageMarker[]; totalMs: number }) {
+  // A band narrower than a pixel or so is drawn as part of the one before it: a long session that enters stages
+  // thousands of times would otherwise put thousands of nodes into the bar and make every seek relayout them.
+  const drawn: StageMarker[] = [];
+  for (const m of markers) {
+    const prev = drawn.at(-1);
+    if (!prev || fractionOf(m.offsetMs, totalMs) - fractionOf(prev.offsetMs, totalMs) >= MIN_BAND) drawn.push(m);
+  }
+  return drawn.map((m, i) => {
+    const from = fractionOf(m.offsetMs, totalMs);
+    const to = i + 1 < drawn.length ? fractionOf(drawn[i + 1]!.offsetMs, totalMs) : 1;
+    return (
+      <div
+        key={m.seq}
+        aria-hidden
+        style={{ left: `${from * 100}%`, width: `${Math.max(0, to - from) * 100}%` }}
+        className={`absolute inset-y-0 overflow-hidden border-l-2 border-steel px-1 pt-0.5 text-xs font-semibold leading-tight whitespace-nowrap ${i % 2 ? 'bg-spirit/15' : 'bg-steel/10'}`}
+      >
+        <span className="tabular">{stageNo(m)}</span> {STAGE_GUIDES[m.stage].title}
+      </div>
+    );
+  });
+});
+
+/** A stage marker under the track; memoised so a seek redraws only the two whose highlight changes. */
+const MarkerItem = memo(function MarkerItem({ marker: m, times, here, at, onSeek }: { marker: StageMarker; times: number; here: boolean; at: string; onSeek: (seq: number) => void }) {
+  return (
+    <li>
+      <button
+        type="button"
+        data-testid="stage-marker"
+        data-seq={m.seq}
+        onClick={() => onSeek(m.seq)}
+        aria-current={here ? 'step' : undefined}
+        aria-label={`Stage ${stageNo(m)}: ${STAGE_GUIDES[m.stage].title}, seq ${m.seq}`}
+        className={`min-h-9 rounded-full border-2 px-2.5 font-semibold ${here ? 'border-ink bg-steel text-paper' : 'border-rule bg-paper hover:border-ink'}`}
+      >
+        <span className="tabular">{stageNo(m)}</span> {STAGE_GUIDES[m.stage].title}
+        <span className={`ml-1 tabular text-xs font-normal ${here ? 'text-paper/80' : 'text-ink-soft'}`}>{at}</span>
+        {times > 1 && <span className={`ml-1 tabular text-xs font-normal ${here ? 'text-paper/80' : 'text-ink-soft'}`}>· entered {times}×</span>}
+      </button>
+    </li>
+  );
+});
+
 /**
  * The replay's timeline: play and pause, speeds, a step either way, the readout, and the scrubber with a band per
  * stage, the reviewers' comments pinned above it and the record's own marks below; the stage list under it jumps to
@@ -80,6 +146,7 @@ export function Timeline({ index, clock, totalMs, shortened, maxGapMs, seq, play
   const n = shownCount(index, seq);
   const shown = n > 0 ? index.events[n - 1] : undefined;
   const current = [...markers].reverse().find((m) => m.seq <= seq);
+  const listed = useMemo(() => listedMarkers(markers), [markers]);
   const readout = `seq ${seq} of ${last} · ${elapsed(realOffsetOf(index, seq))}`;
 
   function seekAt(clientX: number) {
@@ -173,20 +240,7 @@ export function Timeline({ index, clock, totalMs, shortened, maxGapMs, seq, play
           }}
           className="relative h-11 cursor-pointer touch-none select-none overflow-hidden rounded-lg border-2 border-ink bg-paper"
         >
-          {markers.map((m, i) => {
-            const from = fractionOf(m.offsetMs, totalMs);
-            const to = i + 1 < markers.length ? fractionOf(markers[i + 1]!.offsetMs, totalMs) : 1;
-            return (
-              <div
-                key={m.seq}
-                aria-hidden
-                style={{ left: `${from * 100}%`, width: `${Math.max(0, to - from) * 100}%` }}
-                className={`absolute inset-y-0 overflow-hidden border-l-2 border-steel px-1 pt-0.5 text-xs font-semibold leading-tight whitespace-nowrap ${i % 2 ? 'bg-spirit/15' : 'bg-steel/10'}`}
-              >
-                <span className="tabular">{stageNo(m)}</span> {STAGE_GUIDES[m.stage].title}
-              </div>
-            );
-          })}
+          <StageBands markers={markers} totalMs={totalMs} />
           <div aria-hidden className="absolute inset-y-0 left-0 bg-ink/10" style={{ width: at(seq) }} />
           <div aria-hidden className="absolute inset-y-0 w-1 -translate-x-1/2 bg-fail" style={{ left: at(seq) }} />
         </div>
@@ -217,25 +271,16 @@ export function Timeline({ index, clock, totalMs, shortened, maxGapMs, seq, play
       </section>
       <div className={`grid gap-1 ${className}`}>
         <ol aria-label="Stage markers: where each stage began" className="flex flex-wrap gap-1 text-sm">
-          {markers.map((m) => {
-            const here = current?.seq === m.seq;
-            return (
-              <li key={m.seq}>
-                <button
-                  type="button"
-                  data-testid="stage-marker"
-                  data-seq={m.seq}
-                  onClick={() => onSeek(m.seq)}
-                  aria-current={here ? 'step' : undefined}
-                  aria-label={`Stage ${stageNo(m)}: ${STAGE_GUIDES[m.stage].title}, seq ${m.seq}`}
-                  className={`min-h-9 rounded-full border-2 px-2.5 font-semibold ${here ? 'border-ink bg-steel text-paper' : 'border-rule bg-paper hover:border-ink'}`}
-                >
-                  <span className="tabular">{stageNo(m)}</span> {STAGE_GUIDES[m.stage].title}
-                  <span className={`ml-1 tabular text-xs font-normal ${here ? 'text-paper/80' : 'text-ink-soft'}`}>{elapsed(realOffsetOf(index, m.seq))}</span>
-                </button>
-              </li>
-            );
-          })}
+          {listed.map(({ marker: m, times }) => (
+            <MarkerItem
+              key={m.seq}
+              marker={m}
+              times={times}
+              here={listed.length < markers.length ? current?.stage === m.stage : current?.seq === m.seq}
+              at={elapsed(realOffsetOf(index, m.seq))}
+              onSeek={onSeek}
+            />
+          ))}
         </ol>
 
         <p className="text-xs text-ink-soft">
