@@ -3,6 +3,7 @@ import { z } from 'zod';
 import { db } from '@/db/client';
 import type { Actor } from '@/lib/auth/actor';
 import { AppError } from '@/lib/errors';
+import type { SessionScrew } from '@/lib/session/events';
 import { loadSessionFor } from '@/lib/session/service';
 
 /**
@@ -18,4 +19,17 @@ export async function loadSessionForPage(actor: Actor, id: string) {
     if (e instanceof AppError && e.status === 403) redirect(`/sessions/${id}`);
     throw e;
   }
+}
+
+/** The machine's footprint now, as a session records screws: for views of sessions whose log carries none. */
+export function currentFootprint(session: Awaited<ReturnType<typeof loadSessionFor>>): SessionScrew[] {
+  return session.machine.screws.map((s) => ({
+    id: s.id,
+    label: s.label,
+    kind: s.kind,
+    xMm: s.xMm,
+    yMm: s.yMm,
+    liftPerTurnMm: s.liftPerTurnMm ?? s.pitchMm,
+    specifiedHeightMm: s.specHeightMm,
+  }));
 }

@@ -1,7 +1,7 @@
 import type { Metadata } from 'next';
 import { CoachView } from '@/components/coach/coach-view';
 import { requirePageActor } from '@/lib/auth/session';
-import { loadSessionForPage } from '../load';
+import { currentFootprint, loadSessionForPage } from '../load';
 
 export const metadata: Metadata = { title: 'Coach view' };
 
@@ -10,15 +10,7 @@ export default async function CoachPage({ params }: { params: Promise<{ id: stri
   const actor = await requirePageActor(`/sessions/${id}/coach`);
   const session = await loadSessionForPage(actor, id);
   const { machine } = session;
-  const fallbackScrews = machine.screws.map((s) => ({
-    id: s.id,
-    label: s.label,
-    kind: s.kind,
-    xMm: s.xMm,
-    yMm: s.yMm,
-    liftPerTurnMm: s.liftPerTurnMm ?? s.pitchMm,
-    specifiedHeightMm: s.specHeightMm,
-  }));
+  const fallbackScrews = currentFootprint(session);
   return (
     <CoachView
       sessionId={session.id}

@@ -5,7 +5,7 @@ import { ReplayView } from '@/components/replay/replay-view';
 import { instrumentFact } from '@/lib/report/facts';
 import { can } from '@/lib/auth/policy';
 import { requirePageActor } from '@/lib/auth/session';
-import { loadSessionForPage } from '../load';
+import { currentFootprint, loadSessionForPage } from '../load';
 
 export const metadata: Metadata = { title: 'Replay' };
 
@@ -16,15 +16,7 @@ export default async function ReplayPage({ params }: { params: Promise<{ id: str
   const session = await loadSessionForPage(actor, id);
   const { machine } = session;
   const instruments = session.visitId ? (await listVisitInstruments(db(), { visitId: session.visitId })).map(instrumentFact) : [];
-  const fallbackScrews = machine.screws.map((s) => ({
-    id: s.id,
-    label: s.label,
-    kind: s.kind,
-    xMm: s.xMm,
-    yMm: s.yMm,
-    liftPerTurnMm: s.liftPerTurnMm ?? s.pitchMm,
-    specifiedHeightMm: s.specHeightMm,
-  }));
+  const fallbackScrews = currentFootprint(session);
   return (
     <ReplayView
       sessionId={session.id}
