@@ -7,6 +7,7 @@
 import { randomUUID } from 'node:crypto';
 import { and, eq, inArray } from 'drizzle-orm';
 import type { Db } from './client';
+import { eventRow } from './queries/events';
 import { getMachineSnapshot } from './queries/sessions';
 import { instruments, levelingSessions, sessionEvents, sessionParticipants, visitInstruments, visits, type User } from './schema';
 import type { EventType, PayloadOf, SessionEvent, Signature } from '@/lib/session/events';
@@ -143,7 +144,7 @@ export async function seedDemoRecords(db: Db, input: { organisationId: string; m
       ]);
       for (let i = 0; i < events.length; i += 500) {
         await tx.insert(sessionEvents).values(
-          events.slice(i, i + 500).map((e) => ({ sessionId, seq: e.seq, id: e.id, type: e.type, payload: e.payload, actorId: e.actorId, actorRole: e.actorRole, clientTs: null, serverTs: new Date(e.serverTs), prevHash: e.prevHash, hash: e.hash })),
+          events.slice(i, i + 500).map(eventRow),
         );
       }
     });

@@ -5,7 +5,7 @@ import { performance } from 'node:perf_hooks';
 import { gzipSync } from 'node:zlib';
 import { and, eq, sql } from 'drizzle-orm';
 import { createDb } from '../db/client';
-import { listEventsBySession } from '../db/queries/events';
+import { eventRow, listEventsBySession } from '../db/queries/events';
 import { getMachineSnapshot, openSession } from '../db/queries/sessions';
 import { levelingSessions, machines, organisations, sessionEvents, users } from '../db/schema';
 import { DEMO_ORGANISATION, seedDemo } from '../db/seed';
@@ -94,7 +94,7 @@ try {
   append('session:ended', { reason: 'benchmark' }, T);
   for (let i = opening.length; i < events.length; i += 1000) {
     await db.insert(sessionEvents).values(
-      events.slice(i, i + 1000).map((e) => ({ sessionId, seq: e.seq, id: e.id, type: e.type, payload: e.payload, actorId: e.actorId, actorRole: e.actorRole, clientTs: null, serverTs: new Date(e.serverTs), prevHash: e.prevHash, hash: e.hash })),
+      events.slice(i, i + 1000).map(eventRow),
     );
   }
   await db.update(levelingSessions).set({ lastSeq: events.length, lastHash: prev, state: 'ended' }).where(eq(levelingSessions.id, sessionId));

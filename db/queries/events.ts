@@ -21,6 +21,23 @@ export function toSessionEvent(row: SessionEventRow): SessionEvent {
   };
 }
 
+/** The stored row of an event made elsewhere (an import, the demo's records, a benchmark): every field unchanged. */
+export function eventRow(e: SessionEvent): typeof sessionEvents.$inferInsert {
+  return {
+    sessionId: e.sessionId,
+    seq: e.seq,
+    id: e.id,
+    type: e.type,
+    payload: e.payload,
+    actorId: e.actorId,
+    actorRole: e.actorRole,
+    clientTs: e.clientTs ? new Date(e.clientTs) : null,
+    serverTs: new Date(e.serverTs),
+    prevHash: e.prevHash,
+    hash: e.hash,
+  };
+}
+
 export type NewEvent<T extends EventType = EventType> = {
   sessionId: string;
   id: string;

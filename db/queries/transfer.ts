@@ -5,7 +5,7 @@ import { AppError } from '@/lib/errors';
 import type { SessionOpenedPayload } from '@/lib/session/events';
 import type { SessionState } from '@/lib/session/fold';
 import type { SessionFile } from '@/lib/session/transfer';
-import { listEventsBySession } from './events';
+import { eventRow, listEventsBySession } from './events';
 
 /** A session's header and whole log for its export; null when absent or another organisation's. */
 export async function getSessionForExport(db: Db, { sessionId, organisationId }: { sessionId: string; organisationId: string }) {
@@ -109,19 +109,7 @@ export async function importSessionFile(
       if (participants.length > 0) await tx.insert(sessionParticipants).values(participants.map((p) => ({ sessionId, userId: p.userId, part: p.part, addedAt: new Date(file.events[p.seq - 1]!.serverTs) })));
       for (let i = 0; i < file.events.length; i += BATCH) {
         await tx.insert(sessionEvents).values(
-          file.events.slice(i, i + BATCH).map((e) => ({
-            sessionId,
-            seq: e.seq,
-            id: e.id,
-            type: e.type,
-            payload: e.payload,
-            actorId: e.actorId,
-            actorRole: e.actorRole,
-            clientTs: e.clientTs ? new Date(e.clientTs) : null,
-            serverTs: new Date(e.serverTs),
-            prevHash: e.prevHash,
-            hash: e.hash,
-          })),
+          file.events.slice(i, i + BATCH).map((e) => eventRow({ ...e, sessionId })),
         );
       }
       return { id: sessionId, state: state.status, machineId: machine.id, technicianId, technicianFromLog, participants: participants.length, events: file.events.length, head: head.hash };
