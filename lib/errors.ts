@@ -7,6 +7,8 @@ const statusByKind = {
   forbidden: 403,
   not_found: 404,
   conflict: 409,
+  /** Something that existed and is no longer available (an expired report link). */
+  gone: 410,
   rate_limited: 429,
   offline: 503,
   internal: 500,

@@ -11,6 +11,8 @@ const permissions = {
   'reading:submit': ['technician'],
   /** Comment on, return or approve an ended session's record (the service manager's part). */
   'session:review': ['reviewer', 'admin'],
+  /** Bring in a session record exported from Levelwire (its chain is verified first). */
+  'session:import': ['admin'],
   'fleet:read': everyone,
   'fleet:write': ['admin'],
   'instrument:read': everyone,
@@ -41,6 +43,7 @@ const describe: Record<Permission, string> = {
   'session:view': 'view this session',
   'reading:submit': 'record readings',
   'session:review': 'review a session’s record',
+  'session:import': 'import a session record; ask an admin',
   'fleet:read': 'read the fleet',
   'fleet:write': 'change customers, sites or machines',
   'instrument:read': 'read instruments',

@@ -145,7 +145,7 @@ describe('POST /api/sessions/import', () => {
     const { sessionId, events } = builtLog({ machineId: org.machineId, technicianId: org.users.technician.id });
     expect((await postImport(fileOf(events), '')).status).toBe(401);
     for (const role of ['technician', 'expert', 'reviewer'] as const) {
-      expect((await postImport(fileOf(events), cookies[role])).json).toMatchObject({ status: 403, code: 'forbidden:import' });
+      expect((await postImport(fileOf(events), cookies[role])).json).toMatchObject({ status: 403, code: 'forbidden:session' });
     }
     expect(await stored(sessionId)).toBe(0);
   });

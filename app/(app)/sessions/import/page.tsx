@@ -1,5 +1,6 @@
 import type { Metadata } from 'next';
 import { ImportForm } from '@/components/session/import-form';
+import { can } from '@/lib/auth/policy';
 import { requirePageActor } from '@/lib/auth/session';
 
 export const metadata: Metadata = { title: 'Import a session' };
@@ -16,7 +17,7 @@ export default async function ImportSessionPage() {
           after it was written is refused, naming the first event that no longer matches.
         </p>
       </div>
-      {actor.role === 'admin' ? (
+      {can(actor, 'session:import') ? (
         <ImportForm />
       ) : (
         <p role="alert" className="rounded-lg bg-fail/10 p-4 font-semibold text-fail">

@@ -1,4 +1,3 @@
-import { NextResponse } from 'next/server';
 import { db } from '@/db/client';
 import { env } from '@/lib/env';
 import { AppError } from '@/lib/errors';
@@ -19,11 +18,7 @@ export const GET = route<Ctx>('report_link', async (_req, { params }) => {
   const check = verifyReportLink(token, env().NEXTAUTH_SECRET, now);
   if (!check.ok && check.problem === 'expired') {
     const when = check.expiredAt.toISOString().slice(0, 16).replace('T', ' ');
-    const detail = `This report link expired on ${when} UTC; ask the service company to send the report again`;
-    return NextResponse.json(
-      { type: 'https://levelwire.invalid/problems/gone/report_link', title: 'gone:report_link', status: 410, detail, code: 'gone:report_link' },
-      { status: 410, headers: { 'content-type': 'application/problem+json', 'cache-control': 'no-store' } },
-    );
+    throw new AppError('gone:report_link', `This report link expired on ${when} UTC; ask the service company to send the report again`);
   }
   if (!check.ok) throw new AppError('forbidden:report_link', 'This report link is not valid; check it was copied whole');
   return pdfResponse(await reportForLink(db(), check.claims, now));

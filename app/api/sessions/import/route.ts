@@ -1,6 +1,7 @@
 import { NextResponse } from 'next/server';
 import { db } from '@/db/client';
 import { importSessionFile } from '@/db/queries/transfer';
+import { assertCan } from '@/lib/auth/policy';
 import { requireActor } from '@/lib/auth/session';
 import { AppError, problem } from '@/lib/errors';
 import { parseWith, route } from '@/lib/http';
@@ -40,7 +41,7 @@ async function bodyText(req: Request, max: number): Promise<string> {
 export const POST = route('import', async (req) => {
   const actor = await requireActor();
   // The role is known without the database: refuse before reading up to 20 MB from someone who may not import.
-  if (actor.role !== 'admin') throw new AppError('forbidden:import', `A ${actor.role} may not import a session record; ask an admin`);
+  assertCan(actor, 'session:import');
   const { machineId } = parseWith(importQuery, Object.fromEntries(new URL(req.url).searchParams), 'import');
   const text = await bodyText(req, MAX_BYTES);
   let raw: unknown;

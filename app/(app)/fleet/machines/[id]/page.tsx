@@ -58,7 +58,7 @@ export default async function MachinePage({ params }: { params: Promise<{ id: st
         due={history.due}
         checkIntervalMonths={history.machine.checkIntervalMonths}
         unitSystem={actor.unitSystem}
-        mayImport={actor.role === 'admin'}
+        mayImport={can(actor, 'session:import')}
       />
       <MachineForm unitSystem={actor.unitSystem} sites={sites} machine={form} readOnly={!mayWrite} />
     </main>
