@@ -10,7 +10,8 @@ import { ensureDebianPackage } from './apt';
 
 export type Cluster = { url: string; port: number; dataDir: string; stop: () => void };
 
-function binDir(): string {
+/** The newest installed PostgreSQL version's bin folder (installs Debian's package when missing). */
+export function binDir(): string {
   const base = '/usr/lib/postgresql';
   const find = () =>
     existsSync(base)
