@@ -1,7 +1,7 @@
 'use client';
 
 import { useMemo, useRef, useState } from 'react';
-import { DEFAULT_SWEEP_DIAMETER_MM, stageScrews, type BaseModel, type ScrewMove } from '@/lib/leveling';
+import { stageScrews, type BaseModel, type ScrewMove } from '@/lib/leveling';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
 import { baseModelOf, learnedResponse, recommendedMoves } from '@/lib/session/advice';
 import { adjustStageOf, engineScrews, pendingMoves, stageVerdict, tolerancesOf } from '@/lib/session/derive';
@@ -11,7 +11,6 @@ import { sessionSeries } from '@/lib/session/series';
 import { STAGE_GUIDES } from '@/lib/session/stages';
 import { AddParticipant } from '@/components/session/add-participant';
 import { useLiveSession, type Link } from '@/components/session/use-live-session';
-import type { SceneMove } from '@/components/viewer/tilt-view';
 import { ChainCheck } from './chain-check';
 import { BaseNumbers } from './base-numbers';
 import { EndSession } from './end-session';
@@ -24,6 +23,7 @@ import { PhotosPanel } from './photos-panel';
 import { PresencePanel } from './presence-panel';
 import { ReadingFeed } from './reading-feed';
 import { CoachCautions, StagePanel } from './stage-panel';
+import { sceneOf } from './scene';
 import { TiltPanel } from './tilt-panel';
 
 type Props = {
@@ -96,17 +96,9 @@ export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabe
   const canEnd = (standing === 'expert' || standing === 'technician') && !ended;
   const moveBusy = sending || outbox.some((c) => c.name === 'move:send');
 
-  const sceneMoves = useMemo<SceneMove[]>(() => {
-    const byScrew = new Map<string, SceneMove>();
-    for (const m of state.moves) if (m.status === 'done' && m.stage === state.stage) byScrew.set(m.screwId, { screwId: m.screwId, turns: m.doneTurns ?? m.turns, status: 'done' });
-    for (const m of state.moves) if (m.status === 'pending') byScrew.set(m.screwId, { screwId: m.screwId, turns: m.turns, status: 'pending' });
-    return [...byScrew.values()];
-  }, [state.moves, state.stage]);
-  const lastLevel = state.readings.findLast((r) => r.kind === 'level');
-  const lastSweep = state.readings.findLast((r) => r.kind === 'sweep');
-  const sweepDiameterMm = lastSweep?.kind === 'sweep' ? lastSweep.diameterMm : DEFAULT_SWEEP_DIAMETER_MM;
-  const showSweep = state.stage === 'spindle-sweep' || lastSweep !== undefined;
-  const sweepLabel = `sweep circle ⌀${unitSystem === 'inch' ? `${(sweepDiameterMm / 25.4).toFixed(1)} in` : `${Math.round(sweepDiameterMm)} mm`}`;
+  const currentScene = sceneOf(state, unitSystem);
+  // One object while the scene is unchanged (its key stands for it), so the tilt view redraws only when it moves.
+  const scene = useMemo(() => currentScene, [currentScene.key]);
   const shape = model ? { tiltXUrad: model.state.tiltXUrad, tiltYUrad: model.state.tiltYUrad, twistUrad: model.state.twistUrad, bowUrad: model.state.bowUrad } : null;
   const shapeKey = shape ? Object.values(shape).map((v) => v.toFixed(3)).join(',') : 'none';
   // A stable object while the model's figures are unchanged (shapeKey stands for shape), so the canvas redraws only when the shape moves.
@@ -185,9 +177,9 @@ export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabe
             table={table}
             travelMm={travel}
             shape={stableShape}
-            level={lastLevel?.kind === 'level' ? { axis: lastLevel.axis, positionMm: lastLevel.positionMm } : null}
-            sweep={showSweep ? { diameterMm: sweepDiameterMm, label: sweepLabel } : null}
-            moves={sceneMoves}
+            level={scene.level}
+            sweep={scene.sweep}
+            moves={scene.moves}
             unitSystem={unitSystem}
           />
           <BaseNumbers model={model} tolerances={tolerances} unitSystem={unitSystem} />

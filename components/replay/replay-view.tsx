@@ -2,7 +2,6 @@
 
 import Link from 'next/link';
 import { useCallback, useDeferredValue, useEffect, useMemo, useRef } from 'react';
-import { DEFAULT_SWEEP_DIAMETER_MM } from '@/lib/leveling';
 import { formatSlope, type UnitSystem } from '@/lib/leveling/units';
 import { baseModelOf, learnedResponse } from '@/lib/session/advice';
 import { stageVerdict, tolerancesOf } from '@/lib/session/derive';
@@ -19,13 +18,13 @@ import { NotesPanel } from '@/components/coach/notes-panel';
 import { PhotosPanel } from '@/components/coach/photos-panel';
 import { ReadingFeed } from '@/components/coach/reading-feed';
 import { StagePanel } from '@/components/coach/stage-panel';
+import { sceneOf } from '@/components/coach/scene';
 import { TiltPanel } from '@/components/coach/tilt-panel';
 import { ReportActions } from '@/components/report/report-actions';
 import { SummaryPanel } from '@/components/report/summary-panel';
 import { ReviewPanel } from '@/components/review/review-panel';
 import { ExportLinks } from '@/components/session/export-links';
 import { StatusChip } from '@/components/review/record-status';
-import type { SceneMove } from '@/components/viewer/tilt-view';
 import { elapsed, lastSeqOf, MAX_GAP_MS, realOffsetOf, timelineOf } from './player-clock';
 import { Timeline, type Pin, type RecordMark } from './timeline';
 import { usePlayer } from './use-player';
@@ -85,23 +84,6 @@ function useKept<K, V>(owner: unknown) {
     if (map.size > KEPT) map.delete(map.keys().next().value!);
     return value;
   }, []);
-}
-
-/** What the tilt view draws besides the shape: the moves of the stage, where the level lay last, the sweep circle. */
-function sceneOf(state: SessionState, unitSystem: UnitSystem) {
-  const byScrew = new Map<string, SceneMove>();
-  for (const m of state.moves) if (m.status === 'done' && m.stage === state.stage) byScrew.set(m.screwId, { screwId: m.screwId, turns: m.doneTurns ?? m.turns, status: 'done' });
-  for (const m of state.moves) if (m.status === 'pending') byScrew.set(m.screwId, { screwId: m.screwId, turns: m.turns, status: 'pending' });
-  const moves = [...byScrew.values()];
-  const lastLevel = state.readings.findLast((r) => r.kind === 'level');
-  const lastSweep = state.readings.findLast((r) => r.kind === 'sweep');
-  const sweepDiameterMm = lastSweep?.kind === 'sweep' ? lastSweep.diameterMm : DEFAULT_SWEEP_DIAMETER_MM;
-  const showSweep = state.stage === 'spindle-sweep' || lastSweep !== undefined;
-  const sweepLabel = `sweep circle ⌀${unitSystem === 'inch' ? `${(sweepDiameterMm / 25.4).toFixed(1)} in` : `${Math.round(sweepDiameterMm)} mm`}`;
-  const level = lastLevel?.kind === 'level' ? { axis: lastLevel.axis, positionMm: lastLevel.positionMm } : null;
-  const sweep = showSweep ? { diameterMm: sweepDiameterMm, label: sweepLabel } : null;
-  const key = JSON.stringify([moves, level, sweep]);
-  return { moves, level, sweep, key };
 }
 
 /** Marks of the record itself along the timeline: each end, return, rework taken up, and the approval. */
