@@ -355,6 +355,13 @@ export const customersRelations = relations(customers, ({ many }) => ({
   sites: many(sites),
   contacts: many(contacts),
 }));
+/** Sign-in failure counters for rate-limiter-flexible's PostgreSQL store (its documented columns). */
+export const signInLimits = pgTable('sign_in_limits', {
+  key: text('key').primaryKey(),
+  points: integer('points').notNull().default(0),
+  expire: bigint('expire', { mode: 'number' }),
+});
+
 export const contactsRelations = relations(contacts, ({ one }) => ({
   customer: one(customers, { fields: [contacts.customerId], references: [customers.id] }),
 }));
