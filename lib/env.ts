@@ -22,6 +22,13 @@ const schema = z.object({
   S3_SECRET_ACCESS_KEY: z.string().default('S3RVER'),
   /** Minutes between runs of the reminder job inside the server (0 turns it off). */
   REMINDER_INTERVAL_MINUTES: z.coerce.number().min(0).default(60),
+  /**
+   * How socket.io reaches the other server processes: 'local' for one process, 'postgres' to run several
+   * behind a load balancer, joined through the database with @socket.io/postgres-adapter.
+   */
+  REALTIME_ADAPTER: z.enum(['local', 'postgres']).default('local'),
+  /** Seconds a SIGTERM waits for commands in flight before the server closes anyway. */
+  SHUTDOWN_GRACE_SECONDS: z.coerce.number().min(1).max(60).default(8),
 });
 
 export type Env = z.infer<typeof schema>;
