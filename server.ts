@@ -1,7 +1,7 @@
 // Levelwire's process: Next.js and socket.io on one HTTP server. Handlers live in lib/realtime.
 import { createServer } from 'node:http';
 import next from 'next';
-import { db } from './db/client';
+import { createDb, db } from './db/client';
 import { assertProductionSecrets, env } from './lib/env';
 import { SOCKET_PATH } from './lib/realtime/contract';
 import { attachRealtime } from './lib/realtime/server';
@@ -16,7 +16,10 @@ await app.prepare();
 
 const handle = app.getRequestHandler();
 const httpServer = createServer((req, res) => void handle(req, res));
-const realtime = attachRealtime(httpServer, { db: db(), secret: config.NEXTAUTH_SECRET });
+// Several processes behind a load balancer share rooms through PostgreSQL; the adapter gets its own small pool
+// (it holds one connection for LISTEN).
+const clusterDb = config.REALTIME_ADAPTER === 'postgres' ? createDb(config.DATABASE_URL, 3) : undefined;
+const realtime = attachRealtime(httpServer, { db: db(), secret: config.NEXTAUTH_SECRET, clusterPool: clusterDb?.$client });
 // Works demo sessions (a virtual seed set) through the same service as a person's commands.
 const virtualTechnician = startVirtualTechnician({ db: db(), isWatched: realtime.isWatched });
 const stopReminders = startReminderTimer(db(), config.REMINDER_INTERVAL_MINUTES);
@@ -29,20 +32,37 @@ if (dev) {
 }
 
 httpServer.listen(config.PORT, config.HOST, () => {
-  console.log(`[levelwire] serving on http://${config.HOST}:${config.PORT} (${dev ? 'development' : 'production'})`);
+  console.log(`[levelwire] serving on http://${config.HOST}:${config.PORT} (${dev ? 'development' : 'production'}, realtime ${config.REALTIME_ADAPTER})`);
 });
 
+/**
+ * SIGTERM (a deploy, `npm start` stopping): stop taking connections, let the commands in flight commit (new ones
+ * are refused as retryable and stay in the clients' outboxes), tell the clients to reconnect, close the sockets,
+ * then the database; all within SHUTDOWN_GRACE_SECONDS plus two, or the process exits anyway.
+ */
 let stopping = false;
 async function shutdown(signal: string) {
   if (stopping) return;
   stopping = true;
+  const graceMs = config.SHUTDOWN_GRACE_SECONDS * 1000;
+  const t0 = performance.now();
   console.log(`[levelwire] ${signal}: closing`);
-  const timer = setTimeout(() => process.exit(1), 10_000);
+  const timer = setTimeout(() => {
+    console.error('[levelwire] shutdown overran its bound; exiting');
+    process.exit(1);
+  }, graceMs + 2_000);
   timer.unref();
+  const httpClosed = new Promise<void>((resolve) => httpServer.close(() => resolve()));
+  httpServer.closeIdleConnections();
   stopReminders();
   await virtualTechnician.stop();
+  const unfinished = await realtime.drain(graceMs);
   await realtime.close();
+  // Requests already being answered finish; the bound above still holds.
+  await Promise.race([httpClosed, new Promise((r) => setTimeout(r, Math.max(0, graceMs - (performance.now() - t0))))]);
+  await clusterDb?.$client.end().catch(() => undefined);
   await db().$client.end();
+  console.log(`[levelwire] closed in ${Math.round(performance.now() - t0)} ms${unfinished ? ` (${unfinished} commands still running)` : ''}`);
   process.exit(0);
 }
 process.on('SIGTERM', () => void shutdown('SIGTERM'));

@@ -9,6 +9,9 @@ export type Db = NodePgDatabase<typeof schema> & { $client: pg.Pool };
 export function createDb(url: string, max = 10): Db {
   const pool = new pg.Pool({ connectionString: url, max });
   pool.on('error', (err) => console.error('[db] idle client error', err.message));
+  // A client checked out of the pool (a transaction, the realtime adapter's LISTEN) has no error listener of the
+  // pool's; without one, a database restart would throw an unhandled 'error' and end the process.
+  pool.on('connect', (client) => client.on('error', (err) => console.error('[db] client error', err.message)));
   return drizzle(pool, { schema }) as Db;
 }
 

@@ -40,10 +40,30 @@ export function fromZod(err: $ZodError, surface: string): AppError {
   return new AppError(`bad_request:${surface}`, what, field);
 }
 
+/**
+ * PostgreSQL's connection-level failures (a restart, a shutdown, a refused or cut connection) by SQLSTATE or
+ * Node error code; the driver and Drizzle may wrap them, so the cause chain is searched.
+ */
+const DATABASE_DOWN_CODES = new Set(['57P01', '57P02', '57P03', '53300', '08000', '08001', '08003', '08006', 'ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT']);
+const DATABASE_DOWN_TEXT = /Connection terminated|connection timeout|Client has encountered a connection error|Client was closed|Cannot use a pool after calling end/i;
+
+export function isDatabaseUnavailable(err: unknown): boolean {
+  let e = err as { code?: unknown; message?: unknown; cause?: unknown } | undefined;
+  for (let depth = 0; e && typeof e === 'object' && depth < 6; depth += 1, e = e.cause as typeof e) {
+    if (typeof e.code === 'string' && DATABASE_DOWN_CODES.has(e.code)) return true;
+    if (typeof e.message === 'string' && DATABASE_DOWN_TEXT.test(e.message)) return true;
+  }
+  return false;
+}
+
 /** Anything thrown, as an AppError; unknown errors are logged and hidden behind a generic message. */
 export function toAppError(err: unknown, surface = 'api'): AppError {
   if (err instanceof AppError) return err;
   if (err instanceof $ZodError) return fromZod(err, surface);
+  if (isDatabaseUnavailable(err)) {
+    console.warn(`[levelwire] database unavailable (${surface}):`, err instanceof Error ? err.message : err);
+    return new AppError('offline:database', 'The database cannot be reached just now; try again in a moment (a resend is never stored twice).');
+  }
   console.error(`[levelwire] unexpected error (${surface})`, err);
   return new AppError('internal:server', 'Something went wrong on the server; nothing was changed.');
 }

@@ -5,6 +5,7 @@ import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { io, type Socket } from 'socket.io-client';
 import {
   EVENT_TYPES,
+  isRetryable,
   PROTOCOL_VERSION,
   SOCKET_PATH,
   type Ack,
@@ -27,6 +28,8 @@ export type Link = 'connecting' | 'live' | 'offline';
 export type Rejected = { id: string; name: AppendingCommand; error: AckError; at: number };
 
 const ACK_TIMEOUT_MS = 8_000;
+/** After a retryable refusal (server restarting, database away), the outbox goes again this soon. */
+const RETRY_SOON_MS = 1_000;
 const PING_EVERY_MS = 5_000;
 
 /** Queue order: strictly increasing within this page, and after any earlier page's (wall clock). */
@@ -99,6 +102,11 @@ export function useLiveSession(sessionId: string, userId: string) {
         } catch {
           break; // no answer: keep it (and everything after it, in order) for the next connection
         }
+        if (!ack.ok && isRetryable(ack.error)) {
+          // The server is restarting or its database is briefly away: keep it (and what follows, in order).
+          setTimeout(() => void flush(), RETRY_SOON_MS);
+          break;
+        }
         if (!ack.ok) {
           const refused: Rejected = { id: cmd.id, name: cmd.name, error: ack.error, at: Date.now() };
           setRejected((r) => [...r.slice(-9), refused]);
@@ -146,6 +154,7 @@ export function useLiveSession(sessionId: string, userId: string) {
     };
     socket.on('connect', join);
     socket.on('disconnect', () => setLink('offline'));
+    socket.on('server:restarting', () => setLink('offline'));
     socket.on('connect_error', () => setLink('offline'));
     socket.on('presence:changed', (u) => u.sessionId === sessionId && setPresence(u.presence));
     for (const type of EVENT_TYPES) socket.on(type, onEvent);

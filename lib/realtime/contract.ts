@@ -35,6 +35,14 @@ export type AppendingCommand = (typeof APPENDING_COMMANDS)[number];
 export type CommandName = keyof typeof commands;
 
 export type AckError = { code: string; message: string; field?: string };
+
+/**
+ * Whether a refused command stays in the sender's outbox and goes again: the server was closing or its database
+ * was briefly away, so the command may or may not be stored; a resend with the same id is answered, never doubled.
+ */
+export function isRetryable(error: AckError): boolean {
+  return error.code === 'offline:database' || error.code === 'offline:restarting';
+}
 export type Ack<T> = ({ ok: true } & T) | { ok: false; error: AckError };
 
 /** What each command's successful acknowledgement carries besides `ok: true`. */
@@ -66,6 +74,8 @@ export type ClientToServerEvents = {
 /** Every stored event is broadcast under its own type name. */
 export type ServerToClientEvents = { [K in (typeof EVENT_TYPES)[number]]: (event: SessionEvent) => void } & {
   'presence:changed': (update: { sessionId: string; presence: Presence[] }) => void;
+  /** The server is closing (a deploy or restart): the connection drops next and the client reconnects by itself. */
+  'server:restarting': (notice: { message: string }) => void;
 };
 
 export type SocketData = {

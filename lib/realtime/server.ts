@@ -1,29 +1,45 @@
 import type { Server as HttpServer } from 'node:http';
 import { parse as parseCookies } from 'cookie';
 import { getToken } from 'next-auth/jwt';
+import { createAdapter } from '@socket.io/postgres-adapter';
+import type pg from 'pg';
 import { Server } from 'socket.io';
 import { actorFromUserId } from '@/lib/auth/actor';
 import { setBroadcaster, setUserSocketEnder } from './bus';
 import { SOCKET_PATH, sessionRoom, userRoom } from './contract';
-import type { IoServer, RealtimeDeps } from './handlers/define';
+import { CommandGate, type IoServer, type RealtimeDeps } from './handlers/define';
 import { sessionCommandHandlers } from './handlers/session-commands';
-import { announcePresence, linkPingHandler, sessionJoinHandler, sessionLeaveHandler } from './handlers/session-join';
+import { announcePresence, linkPingHandler, roomSockets, sessionJoinHandler, sessionLeaveHandler } from './handlers/session-join';
 
 const handlers = [sessionJoinHandler, sessionLeaveHandler, linkPingHandler, ...sessionCommandHandlers];
 
 /**
  * Attaches Levelwire's socket.io server to an HTTP server. The handshake must carry a valid next-auth
- * session cookie of an active user; every command is then checked by its handler.
+ * session cookie of an active user; every command is then checked by its handler. With `clusterPool`, several
+ * processes share rooms and broadcasts through PostgreSQL (LISTEN/NOTIFY, @socket.io/postgres-adapter).
  */
-export function attachRealtime(httpServer: HttpServer, deps: RealtimeDeps & { secret: string }) {
+export function attachRealtime(httpServer: HttpServer, options: RealtimeDeps & { secret: string; clusterPool?: pg.Pool }) {
+  const gate = new CommandGate();
+  const deps: RealtimeDeps = { db: options.db, gate };
   const io: IoServer = new Server(httpServer, { path: SOCKET_PATH, serveClient: false });
+  if (options.clusterPool) {
+    // Heartbeats every 2 s and a node counted gone after 5 s: a killed process stops delaying cluster-wide
+    // lookups (presence) soon after it dies.
+    io.adapter(
+      createAdapter(options.clusterPool, {
+        heartbeatInterval: 2_000,
+        heartbeatTimeout: 5_000,
+        errorHandler: (err) => console.error('[realtime] cluster adapter:', err.message),
+      }),
+    );
+  }
 
   io.use(async (socket, next) => {
     try {
       const cookieHeader = socket.handshake.headers.cookie ?? '';
       const cookies = parseCookies(cookieHeader) as Record<string, string>;
-      const token = await getToken({ req: { headers: socket.handshake.headers, cookies } as never, secret: deps.secret });
-      const actor = await actorFromUserId(deps.db, token?.sub);
+      const token = await getToken({ req: { headers: socket.handshake.headers, cookies } as never, secret: options.secret });
+      const actor = await actorFromUserId(options.db, token?.sub);
       if (!actor) return next(new Error('unauthorized: sign in first'));
       socket.data.actor = actor;
       socket.data.protocol = Number(socket.handshake.auth?.protocol ?? 0);
@@ -51,10 +67,21 @@ export function attachRealtime(httpServer: HttpServer, deps: RealtimeDeps & { se
     io,
     /** Whether anyone besides `exceptUserId` has a socket in the session's room, in any process (with the adapter). */
     async isWatched(sessionId: string, exceptUserId: string): Promise<boolean> {
-      const sockets = await io.in(sessionRoom(sessionId)).fetchSockets();
+      const sockets = await roomSockets(io, sessionRoom(sessionId));
       return sockets.some((s) => s.data.actor && s.data.actor.id !== exceptUserId);
     },
+    /** Refuses new commands as retryable (clients keep them) and waits up to `ms` for those running; returns how many still ran. */
+    async drain(ms: number): Promise<number> {
+      gate.closing = true;
+      return gate.idle(ms);
+    },
+    /**
+     * Tells every client the server is restarting, then closes the sockets from the server's side of the
+     * transport, which socket.io clients answer by reconnecting (a socket-level disconnect would not).
+     */
     async close() {
+      gate.closing = true;
+      io.local.emit('server:restarting', { message: 'The server is restarting; reconnecting by itself.' });
       setBroadcaster(undefined);
       setUserSocketEnder(undefined);
       await new Promise<void>((resolve) => io.close(() => resolve()));

@@ -4,9 +4,41 @@ import type { Db } from '@/db/client';
 import { fromZod, toAppError } from '@/lib/errors';
 import { commands, type ClientToServerEvents, type CommandName, type CommandResults, type ServerToClientEvents, type SocketData } from '../contract';
 
-export type RealtimeDeps = { db: Db };
+export type RealtimeDeps = { db: Db; gate?: CommandGate };
 export type IoServer = Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
 export type IoSocket = Socket<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
+
+/**
+ * Commands being handled now, and whether the server is closing: on SIGTERM server.ts stops new commands (the
+ * client keeps them and sends them again after reconnecting) and waits for these to finish before it closes.
+ */
+export class CommandGate {
+  private running = 0;
+  private waiters: (() => void)[] = [];
+  closing = false;
+
+  enter(): void {
+    this.running += 1;
+  }
+
+  leave(): void {
+    this.running -= 1;
+    if (this.running === 0) for (const w of this.waiters.splice(0)) w();
+  }
+
+  /** Resolves when no command is running, or after `ms`, with how many still ran. */
+  async idle(ms: number): Promise<number> {
+    if (this.running === 0) return 0;
+    await new Promise<void>((resolve) => {
+      const timer = setTimeout(resolve, ms);
+      this.waiters.push(() => {
+        clearTimeout(timer);
+        resolve();
+      });
+    });
+    return this.running;
+  }
+}
 
 /**
  * One handler per command: the payload is parsed against the contract's schema, errors become an
@@ -25,12 +57,20 @@ export function defineHandler<N extends CommandName>(
         reply({ ok: false, error: { code: err.code, message: err.message, field: err.field } });
         return;
       }
+      const gate = ctx.deps.gate;
+      if (gate?.closing) {
+        reply({ ok: false, error: { code: 'offline:restarting', message: 'The server is restarting; the command is sent again once reconnected.' } });
+        return;
+      }
+      gate?.enter();
       try {
         const result = await run(ctx, parsed.data as z.output<(typeof commands)[N]>);
         reply({ ok: true, ...result });
       } catch (e) {
         const err = toAppError(e, name);
         reply({ ok: false, error: { code: err.code, message: err.message, field: err.field } });
+      } finally {
+        gate?.leave();
       }
     }) as never);
   };

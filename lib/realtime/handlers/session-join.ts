@@ -4,9 +4,24 @@ import { sessionJoined } from '../bus';
 import { sessionRoom, type Presence } from '../contract';
 import { defineHandler, type IoServer } from './define';
 
+/** How long a cluster-wide lookup waits for the other processes' answers. */
+const CLUSTER_LOOKUP_MS = 1_500;
+
+/**
+ * The sockets in a room across every process (with the adapter); when another process does not answer in time
+ * (it just died), this process's own sockets, so a join or presence update is never held up by a dead peer.
+ */
+export async function roomSockets(io: IoServer, room: string) {
+  try {
+    return await io.in(room).timeout(CLUSTER_LOOKUP_MS).fetchSockets();
+  } catch {
+    return io.local.in(room).fetchSockets();
+  }
+}
+
 /** Who is connected to a session's room now, one entry per user (across processes with the adapter). */
 export async function presenceOf(io: IoServer, sessionId: string): Promise<Presence[]> {
-  const sockets = await io.in(sessionRoom(sessionId)).fetchSockets();
+  const sockets = await roomSockets(io, sessionRoom(sessionId));
   const byUser = new Map<string, Presence>();
   for (const s of sockets) {
     const { actor, connectedAt, rttMs } = s.data;
