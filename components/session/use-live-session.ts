@@ -155,7 +155,11 @@ export function useLiveSession(sessionId: string, userId: string) {
     socket.on('connect', join);
     socket.on('disconnect', () => setLink('offline'));
     socket.on('server:restarting', () => setLink('offline'));
-    socket.on('connect_error', () => setLink('offline'));
+    socket.on('connect_error', (err) => {
+      setLink('offline');
+      // Refused at the handshake because the server's database was away: socket.io does not retry that by itself.
+      if (!socket.active && (err as { data?: { retryable?: boolean } }).data?.retryable) setTimeout(() => socket.connect(), RETRY_SOON_MS * 2);
+    });
     socket.on('presence:changed', (u) => u.sessionId === sessionId && setPresence(u.presence));
     for (const type of EVENT_TYPES) socket.on(type, onEvent);
     const online = () => socket.connected || socket.connect();

@@ -5,6 +5,7 @@ import { createAdapter } from '@socket.io/postgres-adapter';
 import type pg from 'pg';
 import { Server } from 'socket.io';
 import { actorFromUserId } from '@/lib/auth/actor';
+import { isDatabaseUnavailable } from '@/lib/errors';
 import { setBroadcaster, setUserSocketEnder } from './bus';
 import { SOCKET_PATH, sessionRoom, userRoom } from './contract';
 import { CommandGate, type IoServer, type RealtimeDeps } from './handlers/define';
@@ -47,7 +48,9 @@ export function attachRealtime(httpServer: HttpServer, options: RealtimeDeps & {
       socket.data.rttMs = null;
       socket.data.sessions = [];
       next();
-    } catch {
+    } catch (e) {
+      // A database outage is not a sign-out: the client is told to try again (it would not reconnect on its own).
+      if (isDatabaseUnavailable(e)) return next(Object.assign(new Error('offline:database'), { data: { retryable: true } }));
       next(new Error('unauthorized: sign in first'));
     }
   });
