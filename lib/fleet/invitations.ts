@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { newPassword } from '@/lib/auth/password';
 
 export const INVITE_ROLES = ['technician', 'expert', 'reviewer', 'admin'] as const;
 
@@ -16,15 +17,7 @@ export type InvitationFormValues = z.input<typeof invitationInput>;
 /** 32 random bytes in base64url: 43 characters. */
 export const invitationToken = z.string({ error: 'must be text' }).regex(/^[A-Za-z0-9_-]{43}$/, 'is not a Levelwire invitation link');
 
-/** A new password: at least 12 characters with a letter and a digit. */
-export const newPassword = z
-  .string({ error: 'must be text' })
-  .min(12, 'must be at least 12 characters')
-  .max(200, 'must be at most 200 characters')
-  .regex(/\p{L}/u, 'must contain a letter')
-  .regex(/\d/, 'must contain a digit');
-
-/** What the invited person sends (POST /api/invitations/accept and the invite page's form). */
+/** What the invited person sends (POST /api/invitations/accept and the invite page's form); the password rules live in lib/auth/password.ts. */
 export const acceptInvitationInput = z.strictObject({
   token: invitationToken,
   name: z.string({ error: 'must be text' }).trim().min(2, 'must be at least 2 characters').max(100, 'must be at most 100 characters'),

@@ -7,7 +7,16 @@ import { useForm } from 'react-hook-form';
 import { apiFetch, ApiError } from '@/components/session/api';
 import { Button } from '@/components/ui/button';
 import { FormField, inputClass } from '@/components/ui/form-field';
+import { passwordProblem, PASSWORD_RULES } from '@/lib/auth/password';
 import { acceptInvitationInput, type AcceptInvitationInput } from '@/lib/fleet/invitations';
+
+/** The shared schema plus the rule that needs the invited e-mail, which the server checks again. */
+function schemaFor(email: string) {
+  return acceptInvitationInput.superRefine((v, ctx) => {
+    const problem = passwordProblem(v.password, { email, name: v.name });
+    if (problem) ctx.addIssue({ code: 'custom', path: ['password'], message: problem });
+  });
+}
 
 /** The invited person's name and password; on success they go to sign-in with their new password. */
 export function AcceptInvitationForm({ token, email }: { token: string; email: string }) {
@@ -17,7 +26,7 @@ export function AcceptInvitationForm({ token, email }: { token: string; email: s
     handleSubmit,
     setError,
     formState: { errors },
-  } = useForm<AcceptInvitationInput>({ resolver: zodResolver(acceptInvitationInput), defaultValues: { token, name: '', password: '' } });
+  } = useForm<AcceptInvitationInput>({ resolver: zodResolver(schemaFor(email)), defaultValues: { token, name: '', password: '' } });
   const accept = useMutation({
     mutationFn: (values: AcceptInvitationInput) => apiFetch('/api/invitations/accept', { method: 'POST', body: values }),
     onSuccess: () => router.push(`/sign-in?callbackUrl=${encodeURIComponent('/')}`),
@@ -36,9 +45,14 @@ export function AcceptInvitationForm({ token, email }: { token: string; email: s
       <FormField label="Your name" error={errors.name?.message}>
         <input {...register('name')} autoComplete="name" className={inputClass} aria-invalid={Boolean(errors.name)} />
       </FormField>
-      <FormField label="New password" error={errors.password?.message} hint="At least 12 characters, with a letter and a digit">
-        <input {...register('password')} type="password" autoComplete="new-password" className={inputClass} aria-invalid={Boolean(errors.password)} />
+      <FormField label="New password" error={errors.password?.message}>
+        <input {...register('password')} type="password" autoComplete="new-password" className={inputClass} aria-invalid={Boolean(errors.password)} aria-describedby="password-rules" />
       </FormField>
+      <ul id="password-rules" className="-mt-2 grid list-disc gap-1 pl-5 text-sm text-ink-soft">
+        {PASSWORD_RULES.map((rule) => (
+          <li key={rule}>{rule}</li>
+        ))}
+      </ul>
       {formError && (
         <p role="alert" className="rounded-lg bg-fail/10 p-3 font-semibold text-fail">
           {formError}
