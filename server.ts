@@ -2,6 +2,7 @@
 import { createServer } from 'node:http';
 import next from 'next';
 import { createDb, db } from './db/client';
+import { pinClientAddress } from './lib/auth/client-address';
 import { assertProductionSecrets, env } from './lib/env';
 import { SOCKET_PATH } from './lib/realtime/contract';
 import { attachRealtime } from './lib/realtime/server';
@@ -15,7 +16,11 @@ const app = next({ dev, hostname: config.HOST, port: config.PORT });
 await app.prepare();
 
 const handle = app.getRequestHandler();
-const httpServer = createServer((req, res) => void handle(req, res));
+const httpServer = createServer((req, res) => {
+  // Sign-in limits count by client address; a client's own X-Forwarded-For is believed only behind TRUSTED_PROXIES.
+  pinClientAddress(req, config.TRUSTED_PROXIES);
+  void handle(req, res);
+});
 // Several processes behind a load balancer share rooms through PostgreSQL; the adapter gets its own small pool
 // (it holds one connection for LISTEN).
 const clusterDb = config.REALTIME_ADAPTER === 'postgres' ? createDb(config.DATABASE_URL, 3) : undefined;

@@ -23,6 +23,20 @@ const schema = z.object({
   /** Minutes between runs of the reminder job inside the server (0 turns it off). */
   REMINDER_INTERVAL_MINUTES: z.coerce.number().min(0).default(60),
   /**
+   * Sign-in limits (lib/auth/sign-in-limit.ts). This many failed sign-ins for one e-mail from one address lock that
+   * e-mail for that address (the right password included) for SIGN_IN_LOCK_MINUTES; a success clears the count.
+   */
+  SIGN_IN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),
+  /** Failed sign-ins from one address, any e-mails, that refuse every sign-in from it; high, as a shop's technicians may share one address. */
+  SIGN_IN_MAX_FAILURES_PER_ADDRESS: z.coerce.number().int().min(1).default(50),
+  /** Minutes that failures are counted over and that a lock lasts. */
+  SIGN_IN_LOCK_MINUTES: z.coerce.number().int().min(1).default(15),
+  /**
+   * Reverse proxies in front of the server that each append the address they saw to X-Forwarded-For. 0 (the
+   * default): the header is not believed and the connection's own address counts (server.ts pins it).
+   */
+  TRUSTED_PROXIES: z.coerce.number().int().min(0).max(5).default(0),
+  /**
    * How socket.io reaches the other server processes: 'local' for one process, 'postgres' to run several
    * behind a load balancer, joined through the database with @socket.io/postgres-adapter.
    */

@@ -4,7 +4,7 @@ import { getToken } from 'next-auth/jwt';
 import { createAdapter } from '@socket.io/postgres-adapter';
 import type pg from 'pg';
 import { Server } from 'socket.io';
-import { actorFromUserId } from '@/lib/auth/actor';
+import { actorFromToken } from '@/lib/auth/actor';
 import { isDatabaseUnavailable } from '@/lib/errors';
 import { setBroadcaster, setUserSocketEnder } from './bus';
 import { SOCKET_PATH, sessionRoom, userRoom } from './contract';
@@ -40,7 +40,7 @@ export function attachRealtime(httpServer: HttpServer, options: RealtimeDeps & {
       const cookieHeader = socket.handshake.headers.cookie ?? '';
       const cookies = parseCookies(cookieHeader) as Record<string, string>;
       const token = await getToken({ req: { headers: socket.handshake.headers, cookies } as never, secret: options.secret });
-      const actor = await actorFromUserId(options.db, token?.sub);
+      const actor = await actorFromToken(options.db, token);
       if (!actor) return next(new Error('unauthorized: sign in first'));
       socket.data.actor = actor;
       socket.data.protocol = Number(socket.handshake.auth?.protocol ?? 0);

@@ -4,10 +4,12 @@ import { signIn } from 'next-auth/react';
 import { useRouter } from 'next/navigation';
 import { useState, type FormEvent } from 'react';
 import { Button } from '@/components/ui/button';
+import { signInErrorText } from '@/lib/auth/sign-in-messages';
 
-export function SignInForm({ returnTo }: { returnTo: string }) {
+/** `initialError`: next-auth's `?error=` when it sent the browser here itself. */
+export function SignInForm({ returnTo, initialError }: { returnTo: string; initialError?: string | null }) {
   const router = useRouter();
-  const [error, setError] = useState<string | null>(null);
+  const [error, setError] = useState<string | null>(initialError ?? null);
   const [busy, setBusy] = useState(false);
 
   async function onSubmit(e: FormEvent<HTMLFormElement>) {
@@ -18,7 +20,8 @@ export function SignInForm({ returnTo }: { returnTo: string }) {
     const res = await signIn('credentials', { email: form.get('email'), password: form.get('password'), redirect: false });
     setBusy(false);
     if (!res || res.error) {
-      setError('That e-mail and password do not match an active account.');
+      // A lock says when to try again; any other refusal gets the one wording that does not tell which part was wrong.
+      setError(signInErrorText(res?.error ?? 'CredentialsSignin'));
       return;
     }
     router.replace(returnTo);
