@@ -17,6 +17,8 @@ export const GET = route<Ctx>('photo', async (req, { params }) => {
     headers: {
       'content-type': photo.contentType,
       'content-length': String(photo.bytes.byteLength),
+      // Shown in <img> and opened in a tab as a picture; nosniff and the sandbox keep it from ever being a page.
+      'content-disposition': 'inline',
       'x-content-type-options': 'nosniff',
       'content-security-policy': "default-src 'none'; sandbox",
       // A photo never changes under its id; only the signed-in browser keeps it.
