@@ -7,6 +7,7 @@ import { encode, type JWT } from 'next-auth/jwt';
 import { io as connect } from 'socket.io-client';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { invitations, signInLimits, users } from '@/db/schema';
+import { clientAddress } from '@/lib/auth/client-address';
 import { signInLimitKeys } from '@/lib/auth/sign-in-limit';
 import { passwordStamp, SESSION_MAX_AGE_SECONDS } from '@/lib/auth/token';
 import { hashInvitationToken } from '@/lib/fleet/invitations-service';
@@ -163,6 +164,23 @@ describe('sign-in limits', () => {
     });
     expect((await limitRow(signInLimitKeys(email, from).account))?.points).toBe(1);
     expect(await limitRow(signInLimitKeys(email, spoofed).account)).toBeUndefined();
+  });
+});
+
+describe('clientAddress', () => {
+  // RFC 7239 §5.2 and common proxy practice: each proxy appends the address it received the request from, so
+  // with N trusted proxies the client is the Nth entry from the right; entries further left are the client's own.
+  it.each([
+    ['203.0.113.9', 0, '203.0.113.9', 'the one address server.ts pinned'],
+    ['198.51.100.7, 203.0.113.9', 1, '203.0.113.9', 'one proxy: its entry, not what the client wrote'],
+    ['198.51.100.7, 203.0.113.9, 192.0.2.1', 2, '203.0.113.9', 'two proxies'],
+    ['203.0.113.9', 3, '203.0.113.9', 'fewer entries than proxies: the leftmost'],
+    ['::ffff:203.0.113.9', 0, '203.0.113.9', 'IPv4 mapped into IPv6'],
+    ['2001:db8:85a3:12:8a2e:370:7334:1', 0, '2001:0db8:85a3:0012::/64', 'IPv6 by its /64'],
+    ['2001:db8::1', 0, '2001:0db8:0000:0000::/64', 'IPv6 with :: filled in'],
+    ['', 0, 'unknown', 'no header at all'],
+  ])('%s with %i trusted proxies is %s (%s)', (header, proxies, expected) => {
+    expect(clientAddress(header ? { 'x-forwarded-for': header } : {}, proxies)).toBe(expected);
   });
 });
 
