@@ -9,6 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { invitations, signInLimits, users } from '@/db/schema';
 import { clientAddress } from '@/lib/auth/client-address';
 import { signInLimitKeys } from '@/lib/auth/sign-in-limit';
+import { lockMessage, SIGN_IN_MISMATCH, signInErrorText } from '@/lib/auth/sign-in-messages';
 import { passwordStamp, SESSION_MAX_AGE_SECONDS } from '@/lib/auth/token';
 import { hashInvitationToken } from '@/lib/fleet/invitations-service';
 import { PROTOCOL_VERSION, SOCKET_PATH } from '@/lib/realtime/contract';
@@ -181,6 +182,17 @@ describe('clientAddress', () => {
     ['', 0, 'unknown', 'no header at all'],
   ])('%s with %i trusted proxies is %s (%s)', (header, proxies, expected) => {
     expect(clientAddress(header ? { 'x-forwarded-for': header } : {}, proxies)).toBe(expected);
+  });
+});
+
+describe('signInErrorText', () => {
+  it('shows a lock’s own message, the one wording for a mismatch, and no words a link brings along', () => {
+    expect(lockMessage({ scope: 'account', retryAfterMs: 61_000 })).toBe('Too many failed sign-ins for this e-mail from your network. Try again in 2 minutes.');
+    expect(lockMessage({ scope: 'address', retryAfterMs: 1 })).toBe('Too many failed sign-ins from your network. Try again in 1 minute.');
+    for (const lock of [lockMessage({ scope: 'account', retryAfterMs: 900_000 }), lockMessage({ scope: 'address', retryAfterMs: 60_000 })]) expect(signInErrorText(lock)).toBe(lock);
+    expect(signInErrorText('CredentialsSignin')).toBe(SIGN_IN_MISMATCH);
+    expect(signInErrorText('Too many failed sign-ins from your network. Call 555-0100 to unlock.')).toBe('Sign-in did not go through; try again.');
+    expect(signInErrorText(undefined)).toBeNull();
   });
 });
 
