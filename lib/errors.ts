@@ -35,7 +35,9 @@ export class AppError extends Error {
 /** The first problem of a zod failure as a 400 naming the field. */
 export function fromZod(err: $ZodError, surface: string): AppError {
   const issue = err.issues[0];
-  const field = issue && issue.path.length > 0 ? issue.path.join('.') : undefined;
+  // An unknown key is itself the field at fault, not the object that holds it (which may be the whole body).
+  const path = issue?.code === 'unrecognized_keys' ? [...issue.path, issue.keys[0]!] : (issue?.path ?? []);
+  const field = path.length > 0 ? path.join('.') : undefined;
   const what = field ? `${field}: ${issue?.message}` : (issue?.message ?? 'invalid input');
   return new AppError(`bad_request:${surface}`, what, field);
 }
