@@ -49,8 +49,11 @@ export function defineHandler<N extends CommandName>(
   run: (ctx: { socket: IoSocket; io: IoServer; deps: RealtimeDeps }, payload: z.output<(typeof commands)[N]>) => Promise<CommandResults[N]>,
 ) {
   return (ctx: { socket: IoSocket; io: IoServer; deps: RealtimeDeps }) => {
-    ctx.socket.on(name, (async (raw: unknown, ack?: unknown) => {
+    ctx.socket.on(name, (async (...args: unknown[]) => {
+      // socket.io passes the ack last: a client that sent no payload (or an extra argument) still gets its answer.
+      const ack = args.at(-1);
       const reply = typeof ack === 'function' ? (ack as (r: unknown) => void) : () => undefined;
+      const raw = typeof args[0] === 'function' ? undefined : args[0];
       const parsed = commands[name].safeParse(raw);
       if (!parsed.success) {
         const err = fromZod(parsed.error, name.split(':')[0]!);
