@@ -8,7 +8,7 @@ import path from 'node:path';
 import pg from 'pg';
 import { ensureDebianPackage } from './apt';
 
-export type Cluster = { url: string; port: number; dataDir: string; stop: () => void };
+export type Cluster = { url: string; port: number; dataDir: string; stop: () => void; restart: () => void };
 
 /** The newest installed PostgreSQL version's bin folder (installs Debian's package when missing). */
 export function binDir(): string {
@@ -111,5 +111,7 @@ export async function startCluster(opts: { name: string; port: number; database:
     run(pgctl, ['-D', dataDir, '-l', path.join(path.dirname(dataDir), `${opts.name}.log`), '-w', '-t', '60', '-o', o, 'start'], { quiet: true });
   }
   await ensureDatabase(opts.port, opts.database);
-  return { url: `postgres://postgres@127.0.0.1:${opts.port}/${opts.database}`, port: opts.port, dataDir, stop };
+  /** A fast restart with the options it was started with (the fault suite restarts it under load). */
+  const restart = () => void run(pgctl, ['-D', dataDir, '-l', path.join(path.dirname(dataDir), `${opts.name}.log`), '-m', 'fast', '-w', '-t', '60', 'restart'], { quiet: true });
+  return { url: `postgres://postgres@127.0.0.1:${opts.port}/${opts.database}`, port: opts.port, dataDir, stop, restart };
 }

@@ -62,6 +62,15 @@ async function runPlaywright(env: Record<string, string>): Promise<void> {
   }
 }
 
+/** `scripts/faults.ts --short`: each fault scenario counts as one test. */
+async function runFaults(): Promise<void> {
+  const out = `${reports}/faults.json`;
+  const res = await run('npx', ['tsx', 'scripts/faults.ts', '--short', `--json=${out}`], {});
+  const r = readJson<{ passed: number; failed: number }>(out);
+  if (!r) tallies.push({ layer: 'faults', passed: 0, failed: 1, skipped: 0 });
+  else tallies.push({ layer: 'faults', passed: r.passed, failed: r.failed + (res.status !== 0 && r.failed === 0 ? 1 : 0), skipped: 0 });
+}
+
 // Interrupted (Ctrl-C, CI's end): stop what this run started before leaving.
 for (const signal of ['SIGINT', 'SIGTERM'] as const) {
   process.once(signal, () => {
@@ -96,6 +105,8 @@ try {
     if (wants('integration')) await runVitest('integration', env);
     if (wants('e2e') && existsSync('tests/e2e/playwright.config.ts')) await runPlaywright(env);
   }
+  // The fault suite's short form: its own PostgreSQL and server processes (killed and restarted on purpose).
+  if (wants('faults')) await runFaults();
 } catch (e) {
   setupFailed = true;
   console.error('[levelwire] test set-up failed:', e instanceof Error ? e.message : e);

@@ -3,8 +3,8 @@ import { PASSWORD } from './fixtures';
 export const APP_URL = process.env.APP_URL ?? 'http://127.0.0.1:3100';
 
 /** Signs in through next-auth's credentials flow over HTTP, as a browser would; returns the cookie header. */
-export async function signInOverHttp(email: string, password = PASSWORD): Promise<string> {
-  const csrfRes = await fetch(`${APP_URL}/api/auth/csrf`);
+export async function signInOverHttp(email: string, password = PASSWORD, baseUrl = APP_URL): Promise<string> {
+  const csrfRes = await fetch(`${baseUrl}/api/auth/csrf`);
   const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
   const jar = new Map<string, string>();
   const keep = (res: Response) => {
@@ -16,7 +16,7 @@ export async function signInOverHttp(email: string, password = PASSWORD): Promis
   };
   keep(csrfRes);
   const cookie = () => [...jar].map(([k, v]) => `${k}=${v}`).join('; ');
-  const res = await fetch(`${APP_URL}/api/auth/callback/credentials`, {
+  const res = await fetch(`${baseUrl}/api/auth/callback/credentials`, {
     method: 'POST',
     redirect: 'manual',
     headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: cookie() },

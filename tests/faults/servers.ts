@@ -1,0 +1,50 @@
+// Production server processes for the fault suite: started, killed (SIGKILL or SIGTERM) and started again.
+import { spawn, type ChildProcess } from 'node:child_process';
+import { createWriteStream, mkdirSync } from 'node:fs';
+import path from 'node:path';
+import { waitForHealth } from '../../scripts/setup';
+
+export class ServerProcess {
+  private child: ChildProcess | undefined;
+  starts = 0;
+
+  constructor(
+    readonly name: string,
+    readonly port: number,
+    /** Read at each start: a change applies from the next one. */
+    readonly env: Record<string, string>,
+    private logDir: string,
+  ) {}
+
+  get url() {
+    return `http://127.0.0.1:${this.port}`;
+  }
+
+  get running() {
+    return this.child !== undefined && this.child.exitCode === null && this.child.signalCode === null;
+  }
+
+  async start(): Promise<void> {
+    mkdirSync(this.logDir, { recursive: true });
+    const log = createWriteStream(path.join(this.logDir, `${this.name}.log`), { flags: 'a' });
+    this.child = spawn(process.execPath, ['dist/server.js'], {
+      stdio: ['ignore', 'pipe', 'pipe'],
+      env: { ...process.env, ...this.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', REMINDER_INTERVAL_MINUTES: '0', PORT: String(this.port), HOST: '127.0.0.1', NEXTAUTH_URL: this.url },
+    });
+    this.child.stdout!.pipe(log);
+    this.child.stderr!.pipe(log);
+    this.starts += 1;
+    await waitForHealth(this.url, this.child);
+  }
+
+  /** Sends the signal and waits for the process to end; returns how long it took, ms. */
+  async stop(signal: NodeJS.Signals): Promise<number> {
+    const child = this.child;
+    if (!child || !this.running) return 0;
+    const t0 = performance.now();
+    const exited = new Promise((r) => child.once('exit', r));
+    child.kill(signal);
+    await exited;
+    return performance.now() - t0;
+  }
+}
