@@ -1,4 +1,5 @@
 import { NextResponse } from 'next/server';
+import type { ZodObject, ZodRawShape, ZodType } from 'zod';
 import * as z from 'zod/mini';
 import { AppError, fromZod, problem, toAppError } from './errors';
 
@@ -28,4 +29,19 @@ export async function jsonBody(req: Request, surface: string): Promise<unknown> 
   } catch {
     throw new AppError(`bad_request:${surface}`, 'The body must be JSON');
   }
+}
+
+/**
+ * A PATCH body's schema from the whole record's: every key optional and its default dropped, because zod applies a
+ * default even under `.partial()` and would overwrite a stored value the body never named. A body naming no key is a 400.
+ */
+export function patchOf<T extends ZodRawShape, C extends z.core.$ZodObjectConfig>(schema: ZodObject<T, C>) {
+  const partial = schema.partial();
+  const shape: Record<string, ZodType> = {};
+  for (const [key, field] of Object.entries(schema.shape) as [string, z.core.$ZodType][]) {
+    let inner = field;
+    while (inner instanceof z.core.$ZodDefault || inner instanceof z.core.$ZodPrefault || inner instanceof z.core.$ZodOptional) inner = inner._zod.def.innerType;
+    shape[key] = (inner as ZodType).optional();
+  }
+  return (partial.extend(shape) as unknown as typeof partial).refine((v) => Object.keys(v).length > 0, 'name at least one field to change');
 }

@@ -167,15 +167,14 @@ export async function updateVisit(db: Db, { organisationId, id, patch }: Org & {
     if (rescheduled && current.state !== 'scheduled') {
       throw new AppError('conflict:visit', `A visit that is ${current.state.replace('_', ' ')} cannot be rescheduled`, 'scheduledFor');
     }
-    const [updated] = await tx
-      .update(visits)
-      .set({
-        ...(patch.notes !== undefined ? { notes: patch.notes } : {}),
-        ...(patch.state !== undefined ? { state: patch.state } : {}),
-        ...(rescheduled ? { scheduledFor: patch.scheduledFor, reminderSentAt: null } : {}),
-      })
-      .where(eq(visits.id, id))
-      .returning();
+    const changes = {
+      ...(patch.notes !== undefined ? { notes: patch.notes } : {}),
+      ...(patch.state !== undefined ? { state: patch.state } : {}),
+      ...(rescheduled ? { scheduledFor: patch.scheduledFor, reminderSentAt: null } : {}),
+    };
+    // The same time again changes nothing, and an UPDATE with nothing to set is an error.
+    if (Object.keys(changes).length === 0) return { visit: current, previous: current, rescheduled };
+    const [updated] = await tx.update(visits).set(changes).where(eq(visits.id, id)).returning();
     return { visit: updated!, previous: current, rescheduled };
   });
 }

@@ -5,7 +5,7 @@ import { assertCan } from '@/lib/auth/policy';
 import { requireActor } from '@/lib/auth/session';
 import { AppError } from '@/lib/errors';
 import { jsonBody, parseWith, route } from '@/lib/http';
-import { customerInput, idParams } from '../schema';
+import { customerPatch, idParams } from '../schema';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -21,7 +21,7 @@ export const GET = route<Ctx>('customer', async (_req, { params }) => {
 export const PATCH = route<Ctx>('customer', async (req, { params }) => {
   const actor = await requireActor();
   const { id } = parseWith(idParams, await params, 'customer');
-  const input = parseWith(customerInput.partial(), await jsonBody(req, 'customer'), 'customer');
+  const input = parseWith(customerPatch, await jsonBody(req, 'customer'), 'customer');
   assertCan(actor, 'fleet:write');
   const customer = await updateCustomer(db(), { organisationId: actor.organisationId, id, input });
   if (!customer) throw new AppError('not_found:customer', 'No such customer');

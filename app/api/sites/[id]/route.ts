@@ -4,9 +4,8 @@ import { getSite, updateSite } from '@/db/queries/customers';
 import { assertCan } from '@/lib/auth/policy';
 import { requireActor } from '@/lib/auth/session';
 import { AppError } from '@/lib/errors';
-import { siteInput } from '@/lib/fleet/customers';
 import { jsonBody, parseWith, route } from '@/lib/http';
-import { idParams } from '../../customers/schema';
+import { idParams, sitePatch } from '../../customers/schema';
 
 type Ctx = { params: Promise<{ id: string }> };
 
@@ -22,7 +21,7 @@ export const GET = route<Ctx>('site', async (_req, { params }) => {
 export const PATCH = route<Ctx>('site', async (req, { params }) => {
   const actor = await requireActor();
   const { id } = parseWith(idParams, await params, 'site');
-  const input = parseWith(siteInput.omit({ customerId: true }).partial(), await jsonBody(req, 'site'), 'site');
+  const input = parseWith(sitePatch, await jsonBody(req, 'site'), 'site');
   assertCan(actor, 'fleet:write');
   const site = await updateSite(db(), { organisationId: actor.organisationId, id, input });
   if (!site) throw new AppError('not_found:site', 'No such site');
