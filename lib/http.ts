@@ -31,6 +31,27 @@ export async function jsonBody(req: Request, surface: string): Promise<unknown> 
   }
 }
 
+/** The body as UTF-8 text (a byte-order mark dropped, as `req.text()` does), refused (400 naming `file`) past `maxBytes` without reading the rest. */
+export async function cappedText(req: Request, maxBytes: number, surface: string): Promise<string> {
+  const tooLarge = () => new AppError(`bad_request:${surface}`, `file: larger than ${maxBytes / 1024 / 1024} MB`, 'file');
+  if (Number(req.headers.get('content-length') ?? 0) > maxBytes) throw tooLarge();
+  if (!req.body) return '';
+  const reader = req.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let size = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    size += value.byteLength;
+    if (size > maxBytes) {
+      await reader.cancel();
+      throw tooLarge();
+    }
+    chunks.push(value);
+  }
+  return new TextDecoder().decode(Buffer.concat(chunks));
+}
+
 /**
  * A PATCH body's schema from the whole record's: every key optional and its default dropped, because zod applies a
  * default even under `.partial()` and would overwrite a stored value the body never named. A body naming no key is a 400.

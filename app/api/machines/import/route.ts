@@ -5,7 +5,7 @@ import { assertCan } from '@/lib/auth/policy';
 import { requireActor } from '@/lib/auth/session';
 import { AppError, problem } from '@/lib/errors';
 import { parseMachinesCsv } from '@/lib/fleet/machines-csv';
-import { route } from '@/lib/http';
+import { cappedText, route } from '@/lib/http';
 
 const MAX_CSV_BYTES = 5 * 1024 * 1024;
 
@@ -16,9 +16,9 @@ const MAX_CSV_BYTES = 5 * 1024 * 1024;
  */
 export const POST = route('import', async (req) => {
   const actor = await requireActor();
-  const text = await req.text();
-  if (text.length > MAX_CSV_BYTES) throw new AppError('bad_request:import', 'file: larger than 5 MB', 'file');
+  // The role is known without the database: refuse before reading up to 5 MB from someone who may not import.
   assertCan(actor, 'fleet:write');
+  const text = await cappedText(req, MAX_CSV_BYTES, 'import');
   const organisationId = actor.organisationId;
   const sites = await siteIdsByName(db(), { organisationId });
   const parsed = parseMachinesCsv(text, (customer, site) => sites.get(siteKey(customer, site)));

@@ -36,8 +36,9 @@ async function uploadedFile(req: Request): Promise<File> {
 export const PUT = route<Ctx>('upload', async (req, { params }) => {
   const actor = await requireActor();
   const { id } = parseWith(instrumentParams, await params, 'instrument');
-  const file = await uploadedFile(req);
+  // Refuse a caller who may not upload before reading up to 10 MB from them.
   assertCan(actor, 'instrument:write');
+  const file = await uploadedFile(req);
   const row = await storeCertificate(db(), { organisationId: actor.organisationId, instrumentId: id, file });
   return NextResponse.json({ instrument: toInstrumentView(row, todayUtc()) });
 });
