@@ -56,7 +56,12 @@ export const sessionJoinHandler = defineHandler('session:join', async ({ socket,
   return { events, presence };
 });
 
+/**
+ * Leaves a session's room. Answers ok for any session, but only a socket that joined it announces anything: a stranger's
+ * leave must not stir presence in a room it was never in.
+ */
 export const sessionLeaveHandler = defineHandler('session:leave', async ({ socket, io }, { sessionId }) => {
+  if (!socket.data.sessions.includes(sessionId)) return {} as Record<string, never>;
   await socket.leave(sessionRoom(sessionId));
   socket.data.sessions = socket.data.sessions.filter((s) => s !== sessionId);
   void announcePresence(io, sessionId);
