@@ -58,6 +58,43 @@ export function isDatabaseUnavailable(err: unknown): boolean {
   return false;
 }
 
+/**
+ * A 400 naming the first string (or key) of `value` that holds a NUL character, or null when none does. PostgreSQL's
+ * text and jsonb cannot store one, so it would otherwise fail at the insert as a 500. Walks without recursion: a value
+ * nested thousands deep cannot overflow the stack.
+ */
+export function nulCharacterError(value: unknown, surface: string): AppError | null {
+  type Node = { value: unknown; key: string | number | null; parent: Node | null };
+  const pathOf = (n: Node) => {
+    const keys: (string | number)[] = [];
+    for (let at: Node | null = n; at && at.key !== null; at = at.parent) keys.unshift(at.key);
+    return keys.join('.');
+  };
+  const found = (n: Node) => {
+    const field = pathOf(n) || undefined;
+    return new AppError(`bad_request:${surface}`, `${field ?? 'the payload'}: must not hold a NUL character`, field);
+  };
+  const stack: Node[] = [{ value, key: null, parent: null }];
+  while (stack.length > 0) {
+    const node = stack.pop()!;
+    const v = node.value;
+    if (typeof v === 'string') {
+      if (v.includes('\u0000')) return found(node);
+    } else if (Array.isArray(v)) {
+      for (let i = v.length - 1; i >= 0; i -= 1) stack.push({ value: v[i], key: i, parent: node });
+    } else if (v && typeof v === 'object' && !ArrayBuffer.isView(v)) {
+      const entries = Object.entries(v);
+      for (let i = entries.length - 1; i >= 0; i -= 1) {
+        const [k, child] = entries[i]!;
+        const childNode = { value: child, key: k, parent: node };
+        if (k.includes('\u0000')) return found(childNode);
+        stack.push(childNode);
+      }
+    }
+  }
+  return null;
+}
+
 /** Anything thrown, as an AppError; unknown errors are logged and hidden behind a generic message. */
 export function toAppError(err: unknown, surface = 'api'): AppError {
   if (err instanceof AppError) return err;

@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
 import type { ZodObject, ZodRawShape, ZodType } from 'zod';
 import * as z from 'zod/mini';
-import { AppError, fromZod, problem, toAppError } from './errors';
+import { AppError, fromZod, nulCharacterError, problem, toAppError } from './errors';
 
 /** Wraps a route handler: any thrown error becomes `application/problem+json` with its status; unknown errors a bare 500. */
 export function route<C>(surface: string, fn: (req: Request, ctx: C) => Promise<Response>) {
@@ -15,10 +15,12 @@ export function route<C>(surface: string, fn: (req: Request, ctx: C) => Promise<
   };
 }
 
-/** Parses with a zod schema; a failure is a 400 naming the field. */
+/** Parses with a zod schema; a failure, or text the database cannot store (a NUL character), is a 400 naming the field. */
 export function parseWith<S extends z.ZodMiniType | z.core.$ZodType>(schema: S, value: unknown, surface: string): z.output<S> {
   const parsed = z.safeParse(schema as z.core.$ZodType, value);
   if (!parsed.success) throw fromZod(parsed.error, surface);
+  const nul = nulCharacterError(parsed.data, surface);
+  if (nul) throw nul;
   return parsed.data as z.output<S>;
 }
 

@@ -1,7 +1,7 @@
 import type { Server, Socket } from 'socket.io';
 import type * as z from 'zod/mini';
 import type { Db } from '@/db/client';
-import { fromZod, toAppError } from '@/lib/errors';
+import { fromZod, nulCharacterError, toAppError } from '@/lib/errors';
 import { commands, type ClientToServerEvents, type CommandName, type CommandResults, type ServerToClientEvents, type SocketData } from '../contract';
 
 export type RealtimeDeps = { db: Db; gate?: CommandGate };
@@ -55,9 +55,9 @@ export function defineHandler<N extends CommandName>(
       const reply = typeof ack === 'function' ? (ack as (r: unknown) => void) : () => undefined;
       const raw = typeof args[0] === 'function' ? undefined : args[0];
       const parsed = commands[name].safeParse(raw);
-      if (!parsed.success) {
-        const err = fromZod(parsed.error, name.split(':')[0]!);
-        reply({ ok: false, error: { code: err.code, message: err.message, field: err.field } });
+      const refused = parsed.success ? nulCharacterError(parsed.data, name.split(':')[0]!) : fromZod(parsed.error, name.split(':')[0]!);
+      if (refused) {
+        reply({ ok: false, error: { code: refused.code, message: refused.message, field: refused.field } });
         return;
       }
       const gate = ctx.deps.gate;

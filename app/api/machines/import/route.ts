@@ -19,6 +19,9 @@ export const POST = route('import', async (req) => {
   // The role is known without the database: refuse before reading up to 5 MB from someone who may not import.
   assertCan(actor, 'fleet:write');
   const text = await cappedText(req, MAX_CSV_BYTES, 'import');
+  // PostgreSQL cannot store a NUL character, and a spreadsheet never writes one: refused before it reaches an insert.
+  const nul = text.indexOf('\u0000');
+  if (nul >= 0) throw new AppError('bad_request:import', `file: line ${text.slice(0, nul).split('\n').length} holds a NUL character (not a text CSV)`, 'file');
   const organisationId = actor.organisationId;
   const sites = await siteIdsByName(db(), { organisationId });
   const parsed = parseMachinesCsv(text, (customer, site) => sites.get(siteKey(customer, site)));

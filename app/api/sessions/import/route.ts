@@ -3,7 +3,7 @@ import { db } from '@/db/client';
 import { importSessionFile } from '@/db/queries/transfer';
 import { assertCan } from '@/lib/auth/policy';
 import { requireActor } from '@/lib/auth/session';
-import { AppError, problem } from '@/lib/errors';
+import { AppError, nulCharacterError, problem } from '@/lib/errors';
 import { parseWith, route } from '@/lib/http';
 import { checkSessionFile } from '@/lib/session/transfer';
 import { importQuery } from './schema';
@@ -56,6 +56,9 @@ export const POST = route('import', async (req) => {
     const extra = checked.problem.brokenEvent ? { brokenEvent: checked.problem.brokenEvent } : {};
     return NextResponse.json({ ...problem(err), ...extra }, { status: 400, headers: { 'content-type': 'application/problem+json' } });
   }
+  // The file is stored as it is: a NUL character anywhere (a crafted file can keep its chain whole) cannot be.
+  const nul = nulCharacterError(checked.file, 'import');
+  if (nul) throw nul;
   const session = await importSessionFile(db(), {
     organisationId: actor.organisationId,
     importerId: actor.id,
