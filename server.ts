@@ -59,15 +59,23 @@ async function shutdown(signal: string) {
   timer.unref();
   const httpClosed = new Promise<void>((resolve) => httpServer.close(() => resolve()));
   httpServer.closeIdleConnections();
+  const phases: string[] = [];
+  const phase = async (name: string, work: Promise<unknown>) => {
+    const p0 = performance.now();
+    await work;
+    phases.push(`${name} ${Math.round(performance.now() - p0)} ms`);
+  };
   stopReminders();
-  await virtualTechnician.stop();
-  const unfinished = await realtime.drain(graceMs);
-  await realtime.close();
-  // Requests already being answered finish; the bound above still holds.
-  await Promise.race([httpClosed, new Promise((r) => setTimeout(r, Math.max(0, graceMs - (performance.now() - t0))))]);
-  await clusterDb?.$client.end().catch(() => undefined);
-  await db().$client.end();
-  console.log(`[levelwire] closed in ${Math.round(performance.now() - t0)} ms${unfinished ? ` (${unfinished} commands still running)` : ''}`);
+  await phase('demo runner', virtualTechnician.stop());
+  let unfinished = 0;
+  await phase('commands in flight', realtime.drain(graceMs).then((n) => (unfinished = n)));
+  await phase('sockets', realtime.close());
+  // Requests already being answered finish within what is left of the grace; idle keep-alive connections go now.
+  httpServer.closeIdleConnections();
+  await phase('requests', Promise.race([httpClosed, new Promise((r) => setTimeout(r, Math.max(0, graceMs - (performance.now() - t0))))]));
+  httpServer.closeAllConnections();
+  await phase('database', Promise.all([clusterDb?.$client.end().catch(() => undefined), db().$client.end().catch(() => undefined)]));
+  console.log(`[levelwire] closed in ${Math.round(performance.now() - t0)} ms (${phases.join(', ')})${unfinished ? `; ${unfinished} commands still running` : ''}`);
   process.exit(0);
 }
 process.on('SIGTERM', () => void shutdown('SIGTERM'));

@@ -156,11 +156,12 @@ async function runScenario(s: Scenario, env: { db: Db; org: OrgFixture; cookies:
   const { a, b, toA, toB } = env;
   // Single-process runs use the default (no adapter); the two-process runs join both through PostgreSQL.
   const mode = s.cluster ? 'postgres' : 'local';
-  for (const server of [a, b]) if (server.running) await server.stop('SIGTERM');
-  a.env.REALTIME_ADAPTER = mode;
-  b.env.REALTIME_ADAPTER = mode;
-  await a.start();
-  if (s.cluster) await b.start();
+  for (const server of [a, b]) {
+    const wanted = server === a || s.cluster;
+    if (server.running && (!wanted || server.env.REALTIME_ADAPTER !== mode)) await server.stop('SIGTERM');
+    server.env.REALTIME_ADAPTER = mode;
+    if (wanted && !server.running) await server.start();
+  }
 
   const tStream = performance.now();
   const res = await fetch(`${a.url}/api/sessions`, {
@@ -310,7 +311,7 @@ async function main() {
   const db = createDb(cluster.url, 3);
   const org = await makeOrganisation(db, 'Faults');
   const logDir = '.data/faults-logs';
-  const serverEnv = { ...fakes.env, DATABASE_URL: cluster.url, NEXTAUTH_SECRET: SECRET, SHUTDOWN_GRACE_SECONDS: '5' };
+  const serverEnv = { ...fakes.env, DATABASE_URL: cluster.url, NEXTAUTH_SECRET: SECRET, SHUTDOWN_GRACE_SECONDS: '5', REALTIME_ADAPTER: 'local' };
   const a = new ServerProcess('server-a', 3301, { ...serverEnv }, logDir);
   const b = new ServerProcess('server-b', 3302, { ...serverEnv }, logDir);
   const toA = await startForwarder([a.port, b.port]);

@@ -85,6 +85,12 @@ export function attachRealtime(httpServer: HttpServer, options: RealtimeDeps & {
     async close() {
       gate.closing = true;
       io.local.emit('server:restarting', { message: 'The server is restarting; reconnecting by itself.' });
+      // The engine discards what it has not written yet when it closes: let the last acknowledgements go out first.
+      const deadline = Date.now() + 500;
+      // engine.io keeps its clients and their write buffers internal (typed private); read, never written.
+      const clients = (io.engine as unknown as { clients: Record<string, { writeBuffer: unknown[] }> }).clients;
+      const unsent = () => Object.values(clients).some((c) => c.writeBuffer.length > 0);
+      while (unsent() && Date.now() < deadline) await new Promise((r) => setTimeout(r, 20));
       setBroadcaster(undefined);
       setUserSocketEnder(undefined);
       await new Promise<void>((resolve) => io.close(() => resolve()));
