@@ -14,7 +14,10 @@ export const SLOPE_UNIT_LABELS: Record<SlopeUnit, string> = {
   arcsec: 'arc-seconds',
 };
 
-const isoDate = z.iso.date({ error: (iss) => (iss.input == null || iss.input === '' ? 'enter a date' : 'must be a date (YYYY-MM-DD)') });
+// PostgreSQL has no year 0000 (1 BC comes before AD 1): such a date would fail at the insert, not here.
+const isoDate = z.iso
+  .date({ error: (iss) => (iss.input == null || iss.input === '' ? 'enter a date' : 'must be a date (YYYY-MM-DD)') })
+  .refine((d) => !d.startsWith('0000'), 'must be a date (YYYY-MM-DD) from year 1');
 const positive = (max: number, unit: string) =>
   z.number({ error: 'must be a number' }).finite('must be a number').positive('must be greater than zero').max(max, `must be at most ${max} ${unit}`);
 

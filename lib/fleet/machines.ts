@@ -2,7 +2,8 @@ import { z } from 'zod';
 import { footprintInput } from './footprint';
 
 const mm = (max: number) => z.number({ error: 'must be a number' }).finite().positive('must be greater than zero').max(max, `must be at most ${max} mm`);
-const isoDate = z.iso.date({ error: 'must be a date (YYYY-MM-DD)' });
+// PostgreSQL has no year 0000 (1 BC comes before AD 1): such a date would fail at the insert, not here.
+const isoDate = z.iso.date({ error: 'must be a date (YYYY-MM-DD)' }).refine((d) => !d.startsWith('0000'), 'must be a date (YYYY-MM-DD) from year 1');
 
 /** A machine as the form, the route and the CSV import give it; lengths in mm, slopes in µrad, sweep in µm. */
 export const machineInput = z.strictObject({

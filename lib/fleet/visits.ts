@@ -78,7 +78,8 @@ export type UpdateVisitInput = z.input<typeof updateVisitInput>;
 export const VISIT_SORTS = ['scheduledFor', 'state', 'machine'] as const;
 export type VisitSort = (typeof VISIT_SORTS)[number];
 
-const day = z.iso.date({ error: 'must be a date (YYYY-MM-DD)' });
+// PostgreSQL has no year 0000: such a day would fail in the query, not here.
+const day = z.iso.date({ error: 'must be a date (YYYY-MM-DD)' }).refine((d) => !d.startsWith('0000'), 'must be a date (YYYY-MM-DD) from year 1');
 
 /** GET /api/visits: the list query plus a state filter and a date range (UTC days, both ends included). */
 export const visitListQuery = listQuery(VISIT_SORTS, 'scheduledFor')

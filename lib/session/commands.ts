@@ -63,7 +63,8 @@ export type ReadingInput = z.input<typeof readingInput>;
 const commandBase = {
   id: z.uuid({ error: 'must be a UUID made by the client' }),
   sessionId: z.uuid({ error: 'must be a UUID' }),
-  clientTs: z.optional(z.iso.datetime({ offset: true, error: 'must be an ISO 8601 time' })),
+  // PostgreSQL has no year 0000: such a time would fail at the insert, not here.
+  clientTs: z.optional(z.iso.datetime({ offset: true, error: 'must be an ISO 8601 time' }).check(z.refine((t) => !t.startsWith('0000'), 'must be an ISO 8601 time from year 1'))),
 };
 
 export const readingSubmit = z.strictObject({ ...commandBase, reading: readingInput });

@@ -108,7 +108,8 @@ const lowerUuid = z.string({ error: 'must be a UUID' }).regex(LOWER_UUID, 'must 
 /** Times as the server writes them (`toISOString`): the hash covers the text, so it must read back identical. */
 const serverTime = z
   .string({ error: 'must be an ISO time' })
-  .refine((s) => /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}\.\d{3}Z$/.test(s) && new Date(s).toISOString() === s, 'must be a UTC time as Levelwire writes it (YYYY-MM-DDTHH:MM:SS.sssZ)');
+  // Year 0000 reads back in JavaScript but PostgreSQL has none (1 BC comes before AD 1): the insert would fail.
+  .refine((s) => /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}\.\d{3}Z$/.test(s) && !s.startsWith('0000') && new Date(s).toISOString() === s, 'must be a UTC time as Levelwire writes it (YYYY-MM-DDTHH:MM:SS.sssZ)');
 const num = z.number({ error: 'must be a number' });
 const text = (max: number) => z.string({ error: 'must be text' }).max(max, `must be at most ${max} characters`);
 const stage = z.enum(SESSION_STAGES, { error: `must be one of ${SESSION_STAGES.join(', ')}` });
@@ -177,7 +178,10 @@ const eventOf = <T extends EventType>(type: T) =>
     payload: payloads[type],
     actorId: lowerUuid.nullable(),
     actorRole: text(50),
-    clientTs: z.iso.datetime({ offset: true, error: 'must be an ISO time or null' }).nullable(),
+    clientTs: z.iso
+      .datetime({ offset: true, error: 'must be an ISO time or null' })
+      .refine((t) => !t.startsWith('0000'), 'must be an ISO time from year 1, or null')
+      .nullable(),
     serverTs: serverTime,
     prevHash: z.string({ error: 'must be text' }).regex(/^(|[0-9a-f]{64})$/, 'must be empty or 64 hex digits'),
     hash: z.string({ error: 'must be text' }).regex(/^[0-9a-f]{64}$/, 'must be 64 hex digits'),
