@@ -67,15 +67,17 @@ async function shutdown(signal: string) {
   };
   stopReminders();
   await phase('demo runner', virtualTechnician.stop());
-  let unfinished = 0;
-  await phase('commands in flight', realtime.drain(graceMs).then((n) => (unfinished = n)));
+  let unfinished: string[] = [];
+  await phase('commands in flight', realtime.drain(graceMs).then((left) => (unfinished = left)));
+  if (unfinished.length) console.error(`[levelwire] still running after the grace: ${unfinished.join('; ')}`);
   await phase('sockets', realtime.close());
   // Requests already being answered finish within what is left of the grace; idle keep-alive connections go now.
   httpServer.closeIdleConnections();
   await phase('requests', Promise.race([httpClosed, new Promise((r) => setTimeout(r, Math.max(0, graceMs - (performance.now() - t0))))]));
   httpServer.closeAllConnections();
+  console.log(`[levelwire] phases: ${phases.join(', ')}`);
   await phase('database', Promise.all([clusterDb?.$client.end().catch(() => undefined), db().$client.end().catch(() => undefined)]));
-  console.log(`[levelwire] closed in ${Math.round(performance.now() - t0)} ms (${phases.join(', ')})${unfinished ? `; ${unfinished} commands still running` : ''}`);
+  console.log(`[levelwire] closed in ${Math.round(performance.now() - t0)} ms (${phases.join(', ')})`);
   process.exit(0);
 }
 process.on('SIGTERM', () => void shutdown('SIGTERM'));

@@ -37,7 +37,7 @@ type Ctx = {
   /** Resolves once the technician's acknowledged readings reach this share of the run. */
   at: (share: number) => Promise<void>;
   streaming: () => boolean;
-  /** Records a fault at this moment; it has recovered when the technician's commands and the expert's events flow again. */
+  /** Records a fault at this moment; it has recovered when a command sent after it is acknowledged and reaches the expert. */
   mark: (what: string) => number;
   restartDatabase: () => void;
 };
@@ -248,11 +248,11 @@ async function runScenario(s: Scenario, env: { db: Db; org: OrgFixture; cookies:
   const verdict = verifyChain(stored);
   const moveIds = stored.filter((e) => e.type === 'move:sent').map((e) => e.id);
   const answers = stored.filter((e) => e.type === 'move:answered').map((e) => (e.payload as { moveId: string }).moveId);
-  // Recovered when both sides move again: the technician's next acknowledged command and the expert's next event.
+  // Recovered when a command the technician sends after the fault is acknowledged and its event has reached the expert.
   const recoveryMs = marks.map((m) => {
-    const ack = tech.firstAckAfter(m.at);
-    const seen = expert.firstEventAfter(m.at);
-    return ack === undefined || seen === undefined ? Number.NaN : Math.max(ack, seen) - m.at;
+    const ack = tech.firstAckSentAfter(m.at);
+    const seen = ack && expert.arrivalOf(ack.seq);
+    return ack === undefined || seen === undefined ? Number.NaN : Math.max(ack.at, seen) - m.at;
   });
   const result: Result = {
     name: s.name,
@@ -361,7 +361,7 @@ async function main() {
     await stopAll();
   }
 
-  console.log('\nFault suite (counts of readings; recovery = from the fault until the technician has a command acknowledged and the expert an event delivered)');
+  console.log('\nFault suite (counts of readings; recovery = from the fault until a reading sent after it is acknowledged to the technician and delivered to the expert)');
   console.log('| fault | sent | stored | duplicated | lost | order | expert missing | chain | faults | recovery median / max ms | result |');
   console.log('|---|---|---|---|---|---|---|---|---|---|---|');
   for (const r of results) {

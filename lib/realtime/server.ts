@@ -73,8 +73,8 @@ export function attachRealtime(httpServer: HttpServer, options: RealtimeDeps & {
       const sockets = await roomSockets(io, sessionRoom(sessionId));
       return sockets.some((s) => s.data.actor && s.data.actor.id !== exceptUserId);
     },
-    /** Refuses new commands as retryable (clients keep them) and waits up to `ms` for those running; returns how many still ran. */
-    async drain(ms: number): Promise<number> {
+    /** Refuses new commands as retryable (clients keep them) and waits up to `ms` for those running; returns those still running. */
+    async drain(ms: number): Promise<string[]> {
       gate.closing = true;
       return gate.idle(ms);
     },

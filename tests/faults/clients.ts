@@ -19,8 +19,8 @@ class ScriptedClient {
   private next = 0;
   private pumping = false;
   private timer: NodeJS.Timeout;
-  /** Successful acknowledgements: when, and whether the server said it already held the command. */
-  readonly acks: { at: number; duplicate: boolean }[] = [];
+  /** Successful acknowledgements: when the command went out and came back, its seq, and whether the server already held it. */
+  readonly acks: { sentAt: number; at: number; seq: number; duplicate: boolean }[] = [];
   readonly refused: AckError[] = [];
   retryableRefusals = 0;
   timeouts = 0;
@@ -61,13 +61,13 @@ class ScriptedClient {
     return this.held;
   }
 
-  /** When each event first reached this client (ms since the epoch), in arrival order. */
-  private arrivals: number[] = [];
+  /** When each event first reached this client (ms since the epoch), by seq. */
+  private arrivals = new Map<number, number>();
 
   private hold(e: SessionEvent): boolean {
     if (e.sessionId !== this.sessionId || this.seen.has(e.seq)) return false;
     this.seen.set(e.seq, e);
-    this.arrivals.push(Date.now());
+    this.arrivals.set(e.seq, Date.now());
     while (this.seen.has(this.held + 1)) this.held += 1;
     this.onEvent(e);
     return true;
@@ -110,14 +110,15 @@ class ScriptedClient {
       while (this.socket.connected && this.next < this.queue.length) {
         const cmd = this.queue[this.next]!;
         let ack;
+        const sentAt = Date.now();
         try {
-          ack = (await this.socket.timeout(ACK_TIMEOUT_MS).emitWithAck(cmd.name, cmd.payload as never)) as { ok: boolean; duplicate?: boolean; error?: AckError };
+          ack = (await this.socket.timeout(ACK_TIMEOUT_MS).emitWithAck(cmd.name, cmd.payload as never)) as { ok: boolean; seq?: number; duplicate?: boolean; error?: AckError };
         } catch {
           this.timeouts += 1;
           break; // no answer: the same command goes again on the next connection or tick
         }
         if (ack.ok) {
-          this.acks.push({ at: Date.now(), duplicate: Boolean(ack.duplicate) });
+          this.acks.push({ sentAt, at: Date.now(), seq: ack.seq ?? 0, duplicate: Boolean(ack.duplicate) });
           this.next += 1;
         } else if (isRetryable(ack.error!)) {
           this.retryableRefusals += 1;
@@ -141,14 +142,14 @@ class ScriptedClient {
     }
   }
 
-  /** When the first event after `t` reached this client (ms since the epoch), if any did. */
-  firstEventAfter(t: number): number | undefined {
-    return this.arrivals.find((a) => a > t);
+  /** When the event of this seq reached this client (ms since the epoch), if it did. */
+  arrivalOf(seq: number): number | undefined {
+    return this.arrivals.get(seq);
   }
 
-  /** The first successful acknowledgement after `t` (ms since the epoch), if any. */
-  firstAckAfter(t: number): number | undefined {
-    return this.acks.find((a) => a.at > t)?.at;
+  /** The first acknowledgement of a command sent after `t` (ms since the epoch), if any. */
+  firstAckSentAfter(t: number) {
+    return this.acks.find((a) => a.sentAt > t);
   }
 
   close() {

@@ -13,30 +13,34 @@ export type IoSocket = Socket<ClientToServerEvents, ServerToClientEvents, Record
  * client keeps them and sends them again after reconnecting) and waits for these to finish before it closes.
  */
 export class CommandGate {
-  private running = 0;
+  private running = new Map<number, string>();
+  private nextId = 0;
   private waiters: (() => void)[] = [];
   closing = false;
 
-  enter(): void {
-    this.running += 1;
+  enter(name: string): number {
+    this.nextId += 1;
+    this.running.set(this.nextId, `${name} since ${new Date().toISOString()}`);
+    return this.nextId;
   }
 
-  leave(): void {
-    this.running -= 1;
-    if (this.running === 0) for (const w of this.waiters.splice(0)) w();
+  leave(id: number): void {
+    this.running.delete(id);
+    if (this.running.size === 0) for (const w of this.waiters.splice(0)) w();
   }
 
-  /** Resolves when no command is running, or after `ms`, with how many still ran. */
-  async idle(ms: number): Promise<number> {
-    if (this.running === 0) return 0;
-    await new Promise<void>((resolve) => {
-      const timer = setTimeout(resolve, ms);
-      this.waiters.push(() => {
-        clearTimeout(timer);
-        resolve();
+  /** Resolves when no command is running, or after `ms`, with those still running (name and start). */
+  async idle(ms: number): Promise<string[]> {
+    if (this.running.size > 0) {
+      await new Promise<void>((resolve) => {
+        const timer = setTimeout(resolve, ms);
+        this.waiters.push(() => {
+          clearTimeout(timer);
+          resolve();
+        });
       });
-    });
-    return this.running;
+    }
+    return [...this.running.values()];
   }
 }
 
@@ -65,7 +69,7 @@ export function defineHandler<N extends CommandName>(
         reply({ ok: false, error: { code: 'offline:restarting', message: 'The server is restarting; the command is sent again once reconnected.' } });
         return;
       }
-      gate?.enter();
+      const ticket = gate?.enter(name);
       try {
         const result = await run(ctx, parsed.data as z.output<(typeof commands)[N]>);
         reply({ ok: true, ...result });
@@ -73,7 +77,7 @@ export function defineHandler<N extends CommandName>(
         const err = toAppError(e, name);
         reply({ ok: false, error: { code: err.code, message: err.message, field: err.field } });
       } finally {
-        gate?.leave();
+        if (ticket !== undefined) gate?.leave(ticket);
       }
     }) as never);
   };
