@@ -76,7 +76,10 @@ async function shutdown(signal: string) {
   await phase('requests', Promise.race([httpClosed, new Promise((r) => setTimeout(r, Math.max(0, graceMs - (performance.now() - t0))))]));
   httpServer.closeAllConnections();
   console.log(`[levelwire] phases: ${phases.join(', ')}`);
-  await phase('database', Promise.all([clusterDb?.$client.end().catch(() => undefined), db().$client.end().catch(() => undefined)]));
+  // A pool's end waits for every client it lent out; the adapter never gives back a LISTEN client that PostgreSQL cut,
+  // so the wait is bounded (the process exits just after and the server side closes what is left).
+  const pools = Promise.all([clusterDb?.$client.end().catch(() => undefined), db().$client.end().catch(() => undefined)]);
+  await phase('database', Promise.race([pools, new Promise((r) => setTimeout(r, 1_000))]));
   console.log(`[levelwire] closed in ${Math.round(performance.now() - t0)} ms (${phases.join(', ')})`);
   process.exit(0);
 }
