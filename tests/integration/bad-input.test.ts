@@ -560,4 +560,15 @@ describe('the checks themselves', () => {
     // A deep value is sent as written: the nesting is real, not a string.
     expect(jsonText({ a: new DeepNest(3, 'array') })).toBe('{"a":[[[]]]}');
   });
+
+  it('see a valid socket command stored, and an ack naming another field', async () => {
+    const socket = await socketOf('technician');
+    const before = await fingerprint(db, w.organisationId);
+    const note = { id: randomUUID(), sessionId: w.liveSessionId, text: 'Stored on purpose' };
+    expect(await emitRaw(socket, 'note:post', JSON.stringify(note))).toMatchObject({ ok: true });
+    expect(await fingerprint(db, w.organisationId)).not.toEqual(before);
+    const refused = await emitRaw(socket, 'note:post', JSON.stringify({ ...note, id: randomUUID(), text: 7 }));
+    expect(refused).toMatchObject({ ok: false, error: { field: 'text' } });
+    expect(names(refused.error?.field, 'id')).toBe(false);
+  });
 });
