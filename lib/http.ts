@@ -33,11 +33,14 @@ export async function jsonBody(req: Request, surface: string): Promise<unknown> 
   }
 }
 
-/** The body as UTF-8 text (a byte-order mark dropped, as `req.text()` does), refused (400 naming `file`) past `maxBytes` without reading the rest. */
-export async function cappedText(req: Request, maxBytes: number, surface: string): Promise<string> {
-  const tooLarge = () => new AppError(`bad_request:${surface}`, `file: larger than ${maxBytes / 1024 / 1024} MB`, 'file');
+/**
+ * The body's bytes, refused (400 naming `file`, "larger than `label` MB") past `maxBytes` without reading the rest: by
+ * the declared length first, then while reading, so a chunked body with no length is capped too.
+ */
+async function cappedBytes(req: Request, maxBytes: number, surface: string, labelBytes = maxBytes): Promise<Buffer> {
+  const tooLarge = () => new AppError(`bad_request:${surface}`, `file: larger than ${labelBytes / 1024 / 1024} MB`, 'file');
   if (Number(req.headers.get('content-length') ?? 0) > maxBytes) throw tooLarge();
-  if (!req.body) return '';
+  if (!req.body) return Buffer.alloc(0);
   const reader = req.body.getReader();
   const chunks: Uint8Array[] = [];
   let size = 0;
@@ -51,7 +54,26 @@ export async function cappedText(req: Request, maxBytes: number, surface: string
     }
     chunks.push(value);
   }
-  return new TextDecoder().decode(Buffer.concat(chunks));
+  return Buffer.concat(chunks);
+}
+
+/** The body as UTF-8 text (a byte-order mark dropped, as `req.text()` does), capped as `cappedBytes`. */
+export async function cappedText(req: Request, maxBytes: number, surface: string): Promise<string> {
+  return new TextDecoder().decode(await cappedBytes(req, maxBytes, surface));
+}
+
+/** Room for the multipart envelope and the text fields around a file at the size cap. */
+const MULTIPART_ENVELOPE_BYTES = 64 * 1024;
+
+/** A multipart/form-data body whose file may be up to `fileMaxBytes`; anything else is a 400 naming `file`. */
+export async function cappedForm(req: Request, fileMaxBytes: number, surface: string): Promise<FormData> {
+  const type = req.headers.get('content-type') ?? '';
+  const notMultipart = () => new AppError(`bad_request:${surface}`, 'The body must be multipart/form-data with a "file" field', 'file');
+  if (!type.startsWith('multipart/form-data')) throw notMultipart();
+  const bytes = await cappedBytes(req, fileMaxBytes + MULTIPART_ENVELOPE_BYTES, surface, fileMaxBytes);
+  return new Response(new Uint8Array(bytes), { headers: { 'content-type': type } }).formData().catch(() => {
+    throw notMultipart();
+  });
 }
 
 /**

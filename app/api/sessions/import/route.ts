@@ -4,33 +4,12 @@ import { importSessionFile } from '@/db/queries/transfer';
 import { assertCan } from '@/lib/auth/policy';
 import { requireActor } from '@/lib/auth/session';
 import { AppError, nulCharacterError, problem } from '@/lib/errors';
-import { parseWith, route } from '@/lib/http';
+import { cappedText, parseWith, route } from '@/lib/http';
 import { checkSessionFile } from '@/lib/session/transfer';
 import { importQuery } from './schema';
 
 /** Largest file accepted: a 20,000-event session exports to a few MB. */
 const MAX_BYTES = 20 * 1024 * 1024;
-
-/** The body as text, refused past `max` bytes without reading the rest. */
-async function bodyText(req: Request, max: number): Promise<string> {
-  const tooLarge = () => new AppError('bad_request:import', `file: larger than ${max / 1024 / 1024} MB`, 'file');
-  if (Number(req.headers.get('content-length') ?? 0) > max) throw tooLarge();
-  if (!req.body) return '';
-  const reader = req.body.getReader();
-  const chunks: Uint8Array[] = [];
-  let size = 0;
-  for (;;) {
-    const { done, value } = await reader.read();
-    if (done) break;
-    size += value.byteLength;
-    if (size > max) {
-      await reader.cancel();
-      throw tooLarge();
-    }
-    chunks.push(value);
-  }
-  return Buffer.concat(chunks).toString('utf8');
-}
 
 /**
  * Imports a session's export file (the JSON body, as GET /api/sessions/:id/export gives it; `?machineId=` to file it
@@ -43,7 +22,7 @@ export const POST = route('import', async (req) => {
   // The role is known without the database: refuse before reading up to 20 MB from someone who may not import.
   assertCan(actor, 'session:import');
   const { machineId } = parseWith(importQuery, Object.fromEntries(new URL(req.url).searchParams), 'import');
-  const text = await bodyText(req, MAX_BYTES);
+  const text = await cappedText(req, MAX_BYTES, 'import');
   let raw: unknown;
   try {
     raw = JSON.parse(text);

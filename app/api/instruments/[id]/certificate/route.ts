@@ -6,27 +6,15 @@ import { requireActor } from '@/lib/auth/session';
 import { AppError } from '@/lib/errors';
 import { todayUtc } from '@/lib/dates';
 import { storeCertificate } from '@/lib/fleet/instruments-service';
-import { parseWith, route } from '@/lib/http';
+import { cappedForm, parseWith, route } from '@/lib/http';
 import { getObject, MAX_UPLOAD_BYTES } from '@/lib/storage';
 import { instrumentParams } from '../../schema';
 
 type Ctx = { params: Promise<{ id: string }> };
 
-/** Room for the multipart envelope around a file at the size cap. */
-const ENVELOPE_BYTES = 64 * 1024;
-
-/** The `file` field of a multipart body; a 400 naming the problem otherwise. Oversize bodies are refused before reading. */
+/** The `file` field of a multipart body; a 400 naming the problem otherwise. Oversize bodies are refused unread. */
 async function uploadedFile(req: Request): Promise<File> {
-  const length = Number(req.headers.get('content-length') ?? 0);
-  if (length > MAX_UPLOAD_BYTES + ENVELOPE_BYTES) {
-    throw new AppError('bad_request:upload', `file: larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB`, 'file');
-  }
-  if (!(req.headers.get('content-type') ?? '').startsWith('multipart/form-data')) {
-    throw new AppError('bad_request:upload', 'The body must be multipart/form-data with a "file" field', 'file');
-  }
-  const form = await req.formData().catch(() => {
-    throw new AppError('bad_request:upload', 'The body must be multipart/form-data with a "file" field', 'file');
-  });
+  const form = await cappedForm(req, MAX_UPLOAD_BYTES, 'upload');
   const file = form.get('file');
   if (!(file instanceof File)) throw new AppError('bad_request:upload', 'file: must be a file', 'file');
   return file;
