@@ -1,0 +1,140 @@
+// `npm run bench:ingest`: readings per second durably stored through the real append path (`recordReading`: the
+// caller's access, the session row locked, the hash chained, one commit per reading), with 1, 10 and 50 sessions
+// taking readings at once, against raw batched inserts of the same rows (the baseline, measured in the same run).
+// A throwaway cluster on :54399, restarted with fsync on so that a commit is on disk when it is acknowledged.
+import { performance } from 'node:perf_hooks';
+import { and, eq, sql } from 'drizzle-orm';
+import pg from 'pg';
+import { createDb } from '../db/client';
+import { getMachineSnapshot, openSession } from '../db/queries/sessions';
+import { levelingSessions, machines, organisations, users } from '../db/schema';
+import { DEMO_ORGANISATION, seedDemo } from '../db/seed';
+import type { Actor } from '../lib/auth/actor';
+import { readingToSlopeUrad } from '../lib/leveling/level';
+import { seededRandom } from '../lib/leveling';
+import type { LevelReadingInput } from '../lib/session/commands';
+import { eventHash } from '../lib/session/hash-chain';
+import { recordReading } from '../lib/session/service';
+import { startCluster } from './postgres';
+import { prepareDatabase } from './setup';
+
+const arg = (name: string, fallback: number) => Number(process.argv.find((a) => a.startsWith(`--${name}=`))?.split('=')[1] ?? fallback);
+const READINGS = arg('readings', 20_000);
+const RUNS = arg('runs', 3);
+const CONCURRENCY = (process.argv.find((a) => a.startsWith('--sessions='))?.split('=')[1] ?? '1,10,50').split(',').map(Number);
+const BATCH = 500;
+/** The server's pool size (db/client.ts's default): the real path shares it as the running process would. */
+const POOL = 10;
+const DIVISION_URAD = 20;
+
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
+const random = seededRandom(20261202);
+/** A level reading as the field view sends it: rough level, X or Y, one of three stations, a bubble within ±6 div. */
+const reading = (): LevelReadingInput => ({
+  kind: 'level',
+  stage: 'rough-level',
+  axis: random() < 0.5 ? 'x' : 'y',
+  positionMm: [-400, 0, 400][Math.floor(random() * 3)]!,
+  divisions: Math.round((random() - 0.5) * 24) / 2,
+});
+
+let cluster = await prepareDatabase({ name: 'pg-bench-ingest', port: 54399, database: 'levelwire_bench_ingest', fresh: true });
+// A fresh cluster starts with fsync off (scripts/postgres.ts, for the tests' speed); started again without `fresh`,
+// the same data folder runs with fsync on, as production does.
+cluster.stop();
+cluster = await startCluster({ name: 'pg-bench-ingest', port: 54399, database: 'levelwire_bench_ingest' });
+const db = createDb(cluster.url, POOL);
+try {
+  const settings = await db.execute<{ name: string; setting: string }>(sql`select name, setting from pg_settings where name in ('fsync', 'synchronous_commit', 'wal_sync_method', 'commit_delay', 'server_version')`);
+  const setting = Object.fromEntries(settings.rows.map((r) => [r.name, r.setting]));
+  if (setting.fsync !== 'on') throw new Error('the benchmark cluster runs with fsync off: commits would not be durable');
+  await seedDemo(db);
+  const [org] = await db.select().from(organisations).where(eq(organisations.name, DEMO_ORGANISATION));
+  const [machine] = await db.select().from(machines).where(and(eq(machines.organisationId, org!.id), sql`${machines.model} like 'Vertical machining centre VX-1250%'`)).limit(1);
+  const [tech] = await db.select().from(users).where(eq(users.email, 'tech@northmere.test'));
+  const actor: Actor = { id: tech!.id, name: tech!.name, role: tech!.role, organisationId: org!.id, unitSystem: tech!.unitSystem };
+  await getMachineSnapshot(db, { organisationId: org!.id, machineId: machine!.id });
+  const open = async () =>
+    (await openSession(db, { organisationId: org!.id, machineId: machine!.id, technician: { id: tech!.id, name: tech!.name }, levelDivisionUrad: DIVISION_URAD })).session.id;
+
+  /** The real path: each session's readings one after another (acknowledged before the next), the sessions at once. */
+  async function realPath(sessions: number): Promise<number> {
+    const ids = await Promise.all(Array.from({ length: sessions }, open));
+    const per = ids.map((_, i) => Math.floor(READINGS / sessions) + (i < READINGS % sessions ? 1 : 0));
+    const work = per.map((n) => Array.from({ length: n }, reading));
+    const t = performance.now();
+    await Promise.all(
+      ids.map(async (sessionId, i) => {
+        for (const r of work[i]!) await recordReading(db, actor, { id: crypto.randomUUID(), sessionId, reading: r });
+      }),
+    );
+    return READINGS / ((performance.now() - t) / 1000);
+  }
+
+  /** The baseline: the same rows, hashes chained beforehand, as multi-row INSERTs of BATCH rows, each statement its own commit. */
+  async function baseline(): Promise<number> {
+    const sessionId = await open();
+    const [head] = await db.select({ lastSeq: levelingSessions.lastSeq, lastHash: levelingSessions.lastHash }).from(levelingSessions).where(eq(levelingSessions.id, sessionId));
+    let prev = head!.lastHash;
+    const rows = Array.from({ length: READINGS }, (_, k) => {
+      const r = reading();
+      const e = {
+        seq: head!.lastSeq + k + 1,
+        id: crypto.randomUUID(),
+        type: 'reading:recorded',
+        payload: { ...r, slopeUrad: readingToSlopeUrad(r.divisions, DIVISION_URAD) },
+        actorId: actor.id,
+        actorRole: actor.role,
+        serverTs: new Date().toISOString(),
+      };
+      const hash = eventHash(prev, e);
+      const row = [sessionId, e.seq, e.id, e.type, JSON.stringify(e.payload), e.actorId, e.actorRole, null, e.serverTs, prev, hash];
+      prev = hash;
+      return row;
+    });
+    const client = new pg.Client({ connectionString: cluster.url });
+    await client.connect();
+    try {
+      const t = performance.now();
+      for (let i = 0; i < rows.length; i += BATCH) {
+        const chunk = rows.slice(i, i + BATCH);
+        const values = chunk.map((_, j) => `(${Array.from({ length: 11 }, (_, c) => `$${j * 11 + c + 1}`).join(', ')})`).join(', ');
+        await client.query(
+          `insert into session_events (session_id, seq, id, type, payload, actor_id, actor_role, client_ts, server_ts, prev_hash, hash) values ${values}`,
+          chunk.flat(),
+        );
+      }
+      return READINGS / ((performance.now() - t) / 1000);
+    } finally {
+      await client.end();
+    }
+  }
+
+  console.log(
+    `${READINGS.toLocaleString('en')} readings a run, ${RUNS} runs; pool of ${POOL}; PostgreSQL ${setting.server_version}, fsync ${setting.fsync}, synchronous_commit ${setting.synchronous_commit}, wal_sync_method ${setting.wal_sync_method}\n`,
+  );
+  const base: number[] = [];
+  const real = new Map<number, number[]>(CONCURRENCY.map((c) => [c, []]));
+  // Runs interleave the baseline and the real path, so a slow minute of the shared machine falls on both.
+  for (let run = 0; run < RUNS; run++) {
+    base.push(await baseline());
+    for (const c of CONCURRENCY) real.get(c)!.push(await realPath(c));
+    console.log(`run ${run + 1}: baseline ${base.at(-1)!.toFixed(0)} rows/s; ${CONCURRENCY.map((c) => `${c} session${c > 1 ? 's' : ''} ${real.get(c)!.at(-1)!.toFixed(0)}/s`).join(', ')}`);
+  }
+  const b = median(base);
+  console.log('\n| path | sessions at once | readings/s (median of runs) | runs | against the baseline |');
+  console.log('|---|---|---|---|---|');
+  console.log(`| baseline: multi-row INSERT of ${BATCH}, hashes precomputed | — | ${b.toFixed(0)} | ${base.map((x) => x.toFixed(0)).join(', ')} | 1.00 |`);
+  for (const c of CONCURRENCY) {
+    const m = median(real.get(c)!);
+    console.log(`| real: recordReading, one commit each | ${c} | ${m.toFixed(0)} | ${real.get(c)!.map((x) => x.toFixed(0)).join(', ')} | ${(m / b).toFixed(3)} |`);
+  }
+  const best = Math.max(...CONCURRENCY.map((c) => median(real.get(c)!)));
+  console.log(`\nbest real path ${best.toFixed(0)} readings/s = ${(best / b).toFixed(3)} of the baseline; target at least 0.5: ${best / b >= 0.5 ? 'met' : 'NOT met'}`);
+  const [{ count }] = (await db.execute<{ count: string }>(sql`select count(*)::text as count from session_events where type = 'reading:recorded'`)).rows as [{ count: string }];
+  console.log(`readings stored: ${Number(count).toLocaleString('en')} (${RUNS} × (${CONCURRENCY.length} real + 1 baseline) × ${READINGS.toLocaleString('en')} expected)`);
+} finally {
+  await db.$client.end();
+  cluster.stop();
+}
+
