@@ -10,6 +10,7 @@ import { CautionList } from '@/components/session/caution-list';
 import { AddParticipant } from '@/components/session/add-participant';
 import { registerFieldWorker } from '@/components/session/register-field-worker';
 import { useLiveSession } from '@/components/session/use-live-session';
+import { loadCommandSchemas } from './command-schemas';
 import { FinishSession } from './finish-session';
 import { answeredInOutbox, keyOfInput, pendingChecks, pendingNotes, pendingReadings, pendingStage, placementOf } from './field-logic';
 import { LinkStrip } from './link-strip';
@@ -49,7 +50,10 @@ export function FieldView({ sessionId, userId, unitSystem, machineLabel, tableMm
   const { events, state, link, outbox, rejected, dismissRejected, send, seen } = useLiveSession(sessionId, userId);
 
   useEffect(() => {
-    void registerFieldWorker();
+    // The checks' schemas load first, so the worker's cache takes their script with the rest of the page.
+    void loadCommandSchemas()
+      .catch(() => undefined)
+      .then(() => registerFieldWorker());
   }, []);
 
   const stage: SessionStage = pendingStage(outbox) ?? state.stage;

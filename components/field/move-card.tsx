@@ -2,9 +2,9 @@
 
 import { useState, type FormEvent, type ReactNode } from 'react';
 import { formatLength, type UnitSystem } from '@/lib/leveling/units';
-import { moveAnswer } from '@/lib/session/commands';
 import type { MoveState } from '@/lib/session/fold';
 import { STAGE_GUIDES } from '@/lib/session/stages';
+import { checkCommand } from './command-schemas';
 import { fieldError, formatTurns, moveWords, typedNumber } from './field-logic';
 import { NumberField } from './number-field';
 
@@ -39,7 +39,7 @@ export function MoveCard({ move, screwLabel, sessionId, unitSystem, onAnswer, to
       outcome === 'done'
         ? { id, sessionId, moveId: move.moveId, outcome, turns: t === null ? Number.NaN : t }
         : { id, sessionId, moveId: move.moveId, outcome, reason };
-    const parsed = moveAnswer.safeParse(body);
+    const parsed = await checkCommand('moveAnswer', body);
     if (!parsed.success) {
       setProblem(fieldError(parsed.error));
       return;

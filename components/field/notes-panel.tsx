@@ -1,9 +1,9 @@
 'use client';
 
 import { useState, type FormEvent } from 'react';
-import { notePost } from '@/lib/session/commands';
 import type { NoteState, ParticipantState } from '@/lib/session/fold';
 import { Button } from '@/components/ui/button';
+import { checkCommand } from './command-schemas';
 import { fieldError } from './field-logic';
 
 type Props = {
@@ -25,7 +25,7 @@ export function NotesPanel({ sessionId, notes, pending, participants, disabled, 
     e.preventDefault();
     setProblem(null);
     const body = { id: crypto.randomUUID(), sessionId, text };
-    const parsed = notePost.safeParse(body);
+    const parsed = await checkCommand('notePost', body);
     if (!parsed.success) return setProblem(fieldError(parsed.error).message.replace(/^text:/, 'note:'));
     await onPost({ id: body.id, text: parsed.data.text });
     setText('');

@@ -1,14 +1,14 @@
 'use client';
 
 import { useState, type FormEvent, type ReactNode } from 'react';
-import * as z from 'zod/mini';
 import { formatPosition } from '@/lib/display-units';
 import type { UnitSystem } from '@/lib/leveling/units';
-import { heightReadingInput, levelReadingInput, reversalReadingInput, sweepReadingInput, type ReadingInput } from '@/lib/session/commands';
+import type { ReadingInput } from '@/lib/session/commands';
 import type { PlannedReading } from '@/lib/session/derive';
 import type { SessionScrew } from '@/lib/session/events';
 import type { SessionStage } from '@/lib/session/stages';
 import { Button } from '@/components/ui/button';
+import { checkCommand, type Checked } from './command-schemas';
 import { entryUnits, fieldError, heightToMm, indicatorToUm, typedNumber } from './field-logic';
 import { NumberField } from './number-field';
 import { VialScale } from './vial-scale';
@@ -40,14 +40,14 @@ export function ReadingEntry({ target, stage, unitSystem, screws, onRecord }: Pr
     return t !== null && Number.isFinite(t) ? t : (vials[name] ?? null);
   };
 
-  function check<S extends z.ZodMiniType>(schema: S, input: unknown): z.output<S> | null {
-    const parsed = schema.safeParse(input);
+  async function check<T>(checking: Promise<Checked<T>>): Promise<T | null> {
+    const parsed = await checking;
     if (parsed.success) return parsed.data;
     setProblem(fieldError(parsed.error));
     return null;
   }
 
-  function build(): ReadingInput | null {
+  async function build(): Promise<ReadingInput | null> {
     switch (target.kind) {
       case 'level': {
         const d = divisions('divisions');
@@ -55,7 +55,7 @@ export function ReadingEntry({ target, stage, unitSystem, screws, onRecord }: Pr
           setProblem({ field: 'divisions', message: 'divisions: tap the vial or type where the bubble sits' });
           return null;
         }
-        return check(levelReadingInput, { kind: 'level', stage, axis: target.axis, positionMm: target.positionMm, divisions: d });
+        return check(checkCommand('levelReadingInput', { kind: 'level', stage, axis: target.axis, positionMm: target.positionMm, divisions: d }));
       }
       case 'reversal': {
         const first = divisions('firstDiv');
@@ -65,7 +65,7 @@ export function ReadingEntry({ target, stage, unitSystem, screws, onRecord }: Pr
           setProblem({ field, message: `${field}: tap the vial or type where the bubble sits` });
           return null;
         }
-        return check(reversalReadingInput, { kind: 'reversal', stage, axis: target.axis, firstDiv: first, secondDiv: second });
+        return check(checkCommand('reversalReadingInput', { kind: 'reversal', stage, axis: target.axis, firstDiv: first, secondDiv: second }));
       }
       case 'height': {
         const h = typedNumber(text('height'));
@@ -73,7 +73,7 @@ export function ReadingEntry({ target, stage, unitSystem, screws, onRecord }: Pr
           setProblem({ field: 'height', message: `height: type the height in ${units.height}` });
           return null;
         }
-        return check(heightReadingInput, { kind: 'height', stage, screwId: target.screwId, heightMm: heightToMm(h, unitSystem) });
+        return check(checkCommand('heightReadingInput', { kind: 'height', stage, screwId: target.screwId, heightMm: heightToMm(h, unitSystem) }));
       }
       case 'sweep': {
         const sides = ['front', 'back', 'left', 'right'] as const;
@@ -83,15 +83,17 @@ export function ReadingEntry({ target, stage, unitSystem, screws, onRecord }: Pr
           return null;
         }
         const um = (s: (typeof sides)[number]) => indicatorToUm(typedNumber(text(s))!, unitSystem);
-        return check(sweepReadingInput, {
-          kind: 'sweep',
-          stage,
-          diameterMm: target.diameterMm,
-          frontUm: um('front'),
-          backUm: um('back'),
-          leftUm: um('left'),
-          rightUm: um('right'),
-        });
+        return check(
+          checkCommand('sweepReadingInput', {
+            kind: 'sweep',
+            stage,
+            diameterMm: target.diameterMm,
+            frontUm: um('front'),
+            backUm: um('back'),
+            leftUm: um('left'),
+            rightUm: um('right'),
+          }),
+        );
       }
     }
   }
@@ -99,10 +101,10 @@ export function ReadingEntry({ target, stage, unitSystem, screws, onRecord }: Pr
   async function submit(e: FormEvent) {
     e.preventDefault();
     setProblem(null);
-    const reading = build();
-    if (!reading) return;
     setBusy(true);
     try {
+      const reading = await build();
+      if (!reading) return;
       await onRecord(reading);
       setValues({});
       setVials({});

@@ -3,19 +3,10 @@
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { io, type Socket } from 'socket.io-client';
-import {
-  EVENT_TYPES,
-  isRetryable,
-  PROTOCOL_VERSION,
-  SOCKET_PATH,
-  type Ack,
-  type AckError,
-  type AppendingCommand,
-  type ClientToServerEvents,
-  type Presence,
-  type ServerToClientEvents,
-} from '@/lib/realtime/contract';
-import type { SessionEvent } from '@/lib/session/events';
+import type { Ack, AckError, AppendingCommand, ClientToServerEvents, Presence, ServerToClientEvents } from '@/lib/realtime/contract';
+// Values from protocol.ts, not contract.ts: the contract's command schemas would bring zod into every live view's first load.
+import { isRetryable, PROTOCOL_VERSION, SOCKET_PATH } from '@/lib/realtime/protocol';
+import { EVENT_TYPES, type SessionEvent } from '@/lib/session/events';
 import { foldEvents } from '@/lib/session/fold';
 import { firstGap, mergeEvents } from '@/lib/session/merge';
 import { apiFetch } from './api';

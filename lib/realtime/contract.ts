@@ -1,12 +1,9 @@
 import * as z from 'zod/mini';
 import { checkMark, moveAnswer, moveSend, notePost, readingSubmit, sessionEnd, sessionJoin, stageEnter } from '@/lib/session/commands';
 import { EVENT_TYPES, type SessionEvent } from '@/lib/session/events';
+import type { AckError } from './protocol';
 
-/** Bumped when a command or event changes shape; clients send it in the handshake. */
-export const PROTOCOL_VERSION = 2;
-
-/** The socket.io path Levelwire listens on (kept apart from Next's own paths). */
-export const SOCKET_PATH = '/realtime';
+export { isRetryable, PROTOCOL_VERSION, SOCKET_PATH, type AckError } from './protocol';
 
 /** Room names come from here, never from string literals elsewhere. */
 export const sessionRoom = (sessionId: string) => `session:${sessionId}`;
@@ -34,15 +31,6 @@ export type AppendingCommand = (typeof APPENDING_COMMANDS)[number];
 
 export type CommandName = keyof typeof commands;
 
-export type AckError = { code: string; message: string; field?: string };
-
-/**
- * Whether a refused command stays in the sender's outbox and goes again: the server was closing or its database
- * was briefly away, so the command may or may not be stored; a resend with the same id is answered, never doubled.
- */
-export function isRetryable(error: AckError): boolean {
-  return error.code === 'offline:database' || error.code === 'offline:restarting';
-}
 export type Ack<T> = ({ ok: true } & T) | { ok: false; error: AckError };
 
 /** What each command's successful acknowledgement carries besides `ok: true`. */
