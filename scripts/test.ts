@@ -71,6 +71,15 @@ async function runFaults(): Promise<void> {
   else tallies.push({ layer: 'faults', passed: r.passed, failed: r.failed + (res.status !== 0 && r.failed === 0 ? 1 : 0), skipped: 0 });
 }
 
+/** `scripts/budgets.ts` against the production build: each budget checked counts as one test. */
+async function runBudgets(): Promise<void> {
+  const out = `${reports}/budgets.json`;
+  const res = await run('npx', ['tsx', 'scripts/budgets.ts', `--json=${out}`], {});
+  const r = readJson<{ passed: number; failed: number }>(out);
+  if (!r) tallies.push({ layer: 'budgets', passed: 0, failed: 1, skipped: 0 });
+  else tallies.push({ layer: 'budgets', passed: r.passed, failed: r.failed + (res.status !== 0 && r.failed === 0 ? 1 : 0), skipped: 0 });
+}
+
 // Interrupted (Ctrl-C, CI's end): stop what this run started before leaving.
 for (const signal of ['SIGINT', 'SIGTERM'] as const) {
   process.once(signal, () => {
@@ -87,12 +96,17 @@ let fakes: Fakes | undefined;
 let setupFailed = false;
 try {
   if (wants('unit')) await runVitest('unit', {});
+  if (only === 'budgets') {
+    buildIfStale();
+    await runBudgets();
+  }
   if (wants('integration') || wants('e2e')) {
     cluster = await prepareDatabase({ name: 'pg-test', port: 54339, database: 'levelwire_test', fresh: true });
     const db = createDb(cluster.url, 2);
     await seedDemo(db);
     await db.$client.end();
     buildIfStale();
+    if (wants('budgets')) await runBudgets();
     rmSync('.data/test-fakes', { recursive: true, force: true });
     fakes = await startFakes('.data/test-fakes');
     const chromium = wants('e2e') ? ensureChromium() : '';
