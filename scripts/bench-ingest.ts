@@ -96,7 +96,7 @@ try {
       const e = {
         seq: head!.lastSeq + k + 1,
         id: crypto.randomUUID(),
-        type: 'reading:recorded',
+        type: 'reading:recorded' as const,
         payload: { ...r, slopeUrad: readingToSlopeUrad(r.divisions, DIVISION_URAD) },
         actorId: actor.id,
         actorRole: actor.role,
