@@ -7,6 +7,8 @@ import { waitForHealth } from '../../scripts/setup';
 export class ServerProcess {
   private child: ChildProcess | undefined;
   starts = 0;
+  /** Node options before the script, read at each start (the live benchmark profiles with --cpu-prof, which NODE_OPTIONS refuses). */
+  nodeArgs: string[] = [];
 
   constructor(
     readonly name: string,
@@ -20,6 +22,11 @@ export class ServerProcess {
     return `http://127.0.0.1:${this.port}`;
   }
 
+  /** The running process's id (the live benchmark reads its CPU and memory from /proc). */
+  get pid(): number | undefined {
+    return this.running ? this.child!.pid : undefined;
+  }
+
   get running() {
     return this.child !== undefined && this.child.exitCode === null && this.child.signalCode === null;
   }
@@ -27,7 +34,7 @@ export class ServerProcess {
   async start(): Promise<void> {
     mkdirSync(this.logDir, { recursive: true });
     const log = createWriteStream(path.join(this.logDir, `${this.name}.log`), { flags: 'a' });
-    this.child = spawn(process.execPath, ['dist/server.js'], {
+    this.child = spawn(process.execPath, [...this.nodeArgs, 'dist/server.js'], {
       stdio: ['ignore', 'pipe', 'pipe'],
       env: { ...process.env, ...this.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1', REMINDER_INTERVAL_MINUTES: '0', PORT: String(this.port), HOST: '127.0.0.1', NEXTAUTH_URL: this.url },
     });
