@@ -1,9 +1,9 @@
 import { expect, test, type Browser, type Page } from '@playwright/test';
-import { DEMO_MACHINE_SERIAL, DEMO_PASSWORD } from '../../db/seed';
+import { DEMO_MACHINE_SERIAL } from '../../db/seed';
 import { SOCKET_PATH } from '../../lib/realtime/contract';
 import { CoachPage } from './pages/coach-page';
 import { FieldPage } from './pages/field-page';
-import { emailOf, type Persona } from './pages/personas';
+import { signedIn, type Persona } from './pages/personas';
 
 /**
  * Issue 7, headers: under the Content-Security-Policy the pages send, nothing the app needs is refused. Sign-in, the
@@ -29,18 +29,9 @@ async function watchViolations(page: Page, into: Violation[]) {
   });
 }
 
-/** A fresh context, watched from its first page, signed in through the sign-in page as one of the demo personas. */
-async function signedInWatched(browser: Browser, role: Persona, into: Violation[], viewport?: { width: number; height: number }) {
-  const context = await browser.newContext(viewport ? { viewport } : {});
-  const page = await context.newPage();
-  await watchViolations(page, into);
-  await page.goto('/sign-in');
-  await page.getByLabel('E-mail').fill(emailOf(role));
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
-  return { context, page };
-}
+/** A fresh context, watched from its first page, signed in as one of the demo personas. */
+const signedInWatched = (browser: Browser, role: Persona, into: Violation[], viewport?: { width: number; height: number }) =>
+  signedIn(browser, role, viewport, (page) => watchViolations(page, into));
 
 test('sign-in, start, field (online and offline), coach and replay pages run under the policy with no violation', async ({ browser }) => {
   test.setTimeout(180_000);

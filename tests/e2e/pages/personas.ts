@@ -5,10 +5,19 @@ export type Persona = (typeof DEMO_USERS)[number]['role'];
 
 export const emailOf = (role: Persona) => DEMO_USERS.find((u) => u.role === role)!.email;
 
-/** A fresh browser context signed in through the sign-in page as one of the demo personas. */
-export async function signedIn(browser: Browser, role: Persona, viewport?: { width: number; height: number }): Promise<{ context: BrowserContext; page: Page }> {
+/**
+ * A fresh browser context signed in through the sign-in page as one of the demo personas; `beforeFirstPage` runs on
+ * the new page before it opens anything (to watch it from the start).
+ */
+export async function signedIn(
+  browser: Browser,
+  role: Persona,
+  viewport?: { width: number; height: number },
+  beforeFirstPage?: (page: Page) => Promise<void>,
+): Promise<{ context: BrowserContext; page: Page }> {
   const context = await browser.newContext(viewport ? { viewport } : {});
   const page = await context.newPage();
+  await beforeFirstPage?.(page);
   await page.goto('/sign-in');
   await page.getByLabel('E-mail').fill(emailOf(role));
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
