@@ -21,6 +21,8 @@ const args = process.argv.slice(2);
 const short = args.includes('--short');
 const jsonOut = args.find((a) => a.startsWith('--json='))?.slice('--json='.length);
 const only = args.find((a) => a.startsWith('--only='))?.slice('--only='.length);
+/** `--ports=<pg>,<server a>,<server b>` to run beside another run of the suite (`npm test` runs it on the defaults). */
+const [PG_PORT, PORT_A, PORT_B] = (args.find((a) => a.startsWith('--ports='))?.slice('--ports='.length) ?? '54379,3301,3302').split(',').map(Number) as [number, number, number];
 const READINGS = Number(args.find((a) => a.startsWith('--readings='))?.slice('--readings='.length) ?? (short ? 300 : 3000));
 /** A move from the expert after this many readings seen. */
 const MOVE_EVERY = 25;
@@ -306,14 +308,14 @@ async function main() {
   const t0 = performance.now();
   // `--no-build`: use the build in place (while sources change under you); otherwise build when stale.
   if (!args.includes('--no-build')) buildIfStale();
-  const cluster = await prepareDatabase({ name: 'pg-faults', port: 54379, database: 'levelwire_faults', fresh: true });
+  const cluster = await prepareDatabase({ name: 'pg-faults', port: PG_PORT, database: 'levelwire_faults', fresh: true });
   const fakes = await startFakes('.data/faults-fakes');
   const db = createDb(cluster.url, 3);
   const org = await makeOrganisation(db, 'Faults');
   const logDir = '.data/faults-logs';
   const serverEnv = { ...fakes.env, DATABASE_URL: cluster.url, NEXTAUTH_SECRET: SECRET, SHUTDOWN_GRACE_SECONDS: '5', REALTIME_ADAPTER: 'local' };
-  const a = new ServerProcess('server-a', 3301, { ...serverEnv }, logDir);
-  const b = new ServerProcess('server-b', 3302, { ...serverEnv }, logDir);
+  const a = new ServerProcess('server-a', PORT_A, { ...serverEnv }, logDir);
+  const b = new ServerProcess('server-b', PORT_B, { ...serverEnv }, logDir);
   const toA = await startForwarder([a.port, b.port]);
   const toB = await startForwarder([b.port, a.port]);
   const dbRestarts: number[] = [];
