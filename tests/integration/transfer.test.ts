@@ -14,6 +14,7 @@ import { endSession } from '@/lib/session/service';
 import type { SessionStage } from '@/lib/session/stages';
 import { makeOrganisation, testDb, type OrgFixture } from './helpers/fixtures';
 import { api, APP_URL, signInOverHttp } from './helpers/http';
+import { chainedLog, sessionFileOf } from './helpers/session-file';
 
 const db = testDb();
 let org: OrgFixture;
@@ -27,32 +28,12 @@ async function download(path: string, cookie?: string) {
   return { status: res.status, disposition: res.headers.get('content-disposition') ?? '', contentType: res.headers.get('content-type') ?? '', text: await res.text() };
 }
 
-/**
- * A session's log built here, as another Levelwire would have written it: fresh uuids, times in the past, hashes made
- * with eventHash. The technician is `technicianId` (someone here or not), an expert who has no account here coaches.
- */
+/** A log as another Levelwire would have written it; an expert who has no account here coaches. */
 function builtLog({ machineId, technicianId }: { machineId: string; technicianId: string }) {
-  const sessionId = randomUUID();
+  const { sessionId, events, add } = chainedLog({ machineId, technicianId });
   const expertId = randomUUID();
-  const events: SessionEvent[] = [];
-  const start = Date.UTC(2025, 10, 3, 7, 30);
-  const add = (type: SessionEvent['type'], payload: object, actorId: string | null = technicianId, actorRole = 'technician') => {
-    const prevHash = events.at(-1)?.hash ?? '';
-    const seq = events.length + 1;
-    const e = { sessionId, seq, id: randomUUID(), type, payload, actorId, actorRole, clientTs: null, serverTs: new Date(start + seq * 7_000).toISOString(), prevHash };
-    events.push({ ...e, hash: eventHash(prevHash, e as SessionEvent) } as SessionEvent);
-  };
   const level = (stage: SessionStage, axis: 'x' | 'y', positionMm: number, divisions: number) =>
     add('reading:recorded', { kind: 'level', stage, axis, positionMm, divisions, slopeUrad: divisions * 20 });
-  add('session:opened', {
-    machineId,
-    levelDivisionUrad: 20,
-    machineLabel: 'Imported VMC · IMP-1',
-    travelMm: 500,
-    tolerances: { levelUrad: 20, twistUrad: 20, bowUrad: 20, sweepTirUm: 12.7 },
-    screws: ['FL', 'FR', 'RL', 'RR'].map((label, i) => ({ id: randomUUID(), label, kind: 'corner', xMm: i % 2 ? 900 : -900, yMm: i < 2 ? -750 : 750, liftPerTurnMm: 3, specifiedHeightMm: null })),
-  });
-  add('participant:added', { userId: technicianId, name: 'Imported technician', part: 'technician' });
   add('participant:added', { userId: expertId, name: 'Expert from elsewhere', part: 'expert' });
   add('stage:entered', { stage: 'rough-level' });
   level('rough-level', 'x', 0, 3);
@@ -62,13 +43,7 @@ function builtLog({ machineId, technicianId }: { machineId: string; technicianId
   return { sessionId, events, expertId };
 }
 
-const fileOf = (events: SessionEvent[], sessionId = events[0]!.sessionId) => ({
-  format: 'levelwire-session',
-  version: 1,
-  exportedAt: '2025-11-03T09:00:00.000Z',
-  session: { id: sessionId, state: 'ended', machine: { id: randomUUID(), label: 'Imported VMC · IMP-1', model: 'Imported VMC', serial: 'IMP-1' } },
-  events,
-});
+const fileOf = (events: SessionEvent[], sessionId = events[0]!.sessionId) => sessionFileOf(events, undefined, sessionId);
 const postImport = (body: unknown, cookie = cookies.admin, query = '') => api(`/api/sessions/import${query}`, { method: 'POST', cookie, body });
 const stored = async (sessionId: string) => (await db.select().from(levelingSessions).where(eq(levelingSessions.id, sessionId))).length;
 

@@ -14,11 +14,10 @@ import type { Actor } from '@/lib/auth/actor';
 import { addDays, todayUtc } from '@/lib/dates';
 import { hashInvitationToken } from '@/lib/fleet/invitations-service';
 import { signReportLink } from '@/lib/report/link';
-import type { SessionEvent } from '@/lib/session/events';
-import { eventHash } from '@/lib/session/hash-chain';
 import { approveRecord, endSession, recordReading, returnRecord, sendMove } from '@/lib/session/service';
 import { makeOrganisation, PASSWORD, testDb, type OrgFixture } from '../helpers/fixtures';
 import { APP_URL, signInOverHttp } from '../helpers/http';
+import { chainedLog, sessionFileOf } from '../helpers/session-file';
 
 export type Person = { id: string; email: string; name: string; role: Role; organisationId: string };
 
@@ -185,30 +184,7 @@ export type World = Awaited<ReturnType<typeof buildWorld>>;
 
 /** The export format of GET /api/sessions/:id/export: opened, the technician, ended; each event chained as the append does. */
 function sessionFile(machineId: string, technicianId: string) {
-  const sessionId = randomUUID();
-  const events: SessionEvent[] = [];
-  const start = Date.UTC(2025, 10, 3, 7, 30);
-  const add = (type: SessionEvent['type'], payload: object) => {
-    const prevHash = events.at(-1)?.hash ?? '';
-    const seq = events.length + 1;
-    const e = { sessionId, seq, id: randomUUID(), type, payload, actorId: technicianId, actorRole: 'technician', clientTs: null, serverTs: new Date(start + seq * 7_000).toISOString(), prevHash };
-    events.push({ ...e, hash: eventHash(prevHash, e as SessionEvent) } as SessionEvent);
-  };
-  add('session:opened', {
-    machineId,
-    levelDivisionUrad: 20,
-    machineLabel: 'Imported VMC · IMP-1',
-    travelMm: 500,
-    tolerances: { levelUrad: 20, twistUrad: 20, bowUrad: 20, sweepTirUm: 12.7 },
-    screws: ['FL', 'FR', 'RL', 'RR'].map((label, i) => ({ id: randomUUID(), label, kind: 'corner', xMm: i % 2 ? 900 : -900, yMm: i < 2 ? -750 : 750, liftPerTurnMm: 3, specifiedHeightMm: null })),
-  });
-  add('participant:added', { userId: technicianId, name: 'Imported technician', part: 'technician' });
+  const { events, add } = chainedLog({ machineId, technicianId });
   add('session:ended', {});
-  return {
-    format: 'levelwire-session',
-    version: 1,
-    exportedAt: '2025-11-03T09:00:00.000Z',
-    session: { id: sessionId, state: 'ended', machine: { id: machineId, label: 'Imported VMC · IMP-1', model: 'Imported VMC', serial: 'IMP-1' } },
-    events,
-  };
+  return sessionFileOf(events, machineId);
 }
