@@ -220,7 +220,7 @@ async function runScenario(s: Scenario, env: { db: Db; org: OrgFixture; cookies:
   }
   generating = false;
   try {
-    await tech.drained(120_000);
+    await tech.drained(60_000);
     await faults;
     clearInterval(coach);
     await expert.drained(60_000);

@@ -133,11 +133,16 @@ class ScriptedClient {
     }
   }
 
-  /** Resolves once the outbox is empty, or rejects after `ms`. */
+  /** Resolves once the outbox is empty; rejects when it has not moved for `ms` (a loaded machine is slow, not stuck). */
   async drained(ms: number): Promise<void> {
-    const deadline = Date.now() + ms;
+    let deadline = Date.now() + ms;
+    let left = this.pending;
     while (this.pending > 0 || this.pumping) {
-      if (Date.now() > deadline) throw new Error(`${this.pending} commands still unsent after ${ms / 1000} s`);
+      if (this.pending < left) {
+        left = this.pending;
+        deadline = Date.now() + ms;
+      }
+      if (Date.now() > deadline) throw new Error(`${this.pending} commands still unsent, none acknowledged for ${ms / 1000} s`);
       await sleep(50);
     }
   }
