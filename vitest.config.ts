@@ -9,7 +9,8 @@ export default defineConfig({
     projects: [
       {
         extends: true,
-        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node' },
+        // A generous limit: nothing here is timed, and a busy shared machine once took 5 s to render a report PDF.
+        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node', testTimeout: 20_000 },
       },
       {
         extends: true,
