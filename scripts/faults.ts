@@ -41,7 +41,7 @@ type Ctx = {
   streaming: () => boolean;
   /** Records a fault at this moment; it has recovered when a command sent after it is acknowledged and reaches the expert. */
   mark: (what: string) => number;
-  restartDatabase: () => void;
+  restartDatabase: () => Promise<void>;
 };
 
 type Scenario = { name: string; cluster: boolean; run: (ctx: Ctx) => Promise<void> };
@@ -91,7 +91,7 @@ const scenarios: Scenario[] = [
     run: async (ctx) => {
       await ctx.at(0.4);
       ctx.mark('PostgreSQL restart');
-      ctx.restartDatabase();
+      await ctx.restartDatabase();
     },
   },
   {
@@ -113,7 +113,7 @@ const scenarios: Scenario[] = [
       await killAndRestart(ctx, ctx.b, 'SIGKILL');
       await ctx.at(0.45);
       ctx.mark('PostgreSQL restart');
-      ctx.restartDatabase();
+      await ctx.restartDatabase();
       await ctx.at(0.65);
       await killAndRestart(ctx, ctx.a, 'SIGKILL');
       await ctx.at(0.85);
@@ -153,7 +153,7 @@ type Result = {
   problem?: string;
 };
 
-async function runScenario(s: Scenario, env: { db: Db; org: OrgFixture; cookies: { tech: string; expert: string }; a: ServerProcess; b: ServerProcess; toA: Forwarder; toB: Forwarder; restartDatabase: () => void }) {
+async function runScenario(s: Scenario, env: { db: Db; org: OrgFixture; cookies: { tech: string; expert: string }; a: ServerProcess; b: ServerProcess; toA: Forwarder; toB: Forwarder; restartDatabase: () => Promise<void> }) {
   const t0 = performance.now();
   const { a, b, toA, toB } = env;
   // Single-process runs use the default (no adapter); the two-process runs join both through PostgreSQL.
@@ -319,9 +319,9 @@ async function main() {
   const toA = await startForwarder([a.port, b.port]);
   const toB = await startForwarder([b.port, a.port]);
   const dbRestarts: number[] = [];
-  const restartDatabase = () => {
+  const restartDatabase = async () => {
     const s0 = performance.now();
-    cluster.restart();
+    await cluster.restart();
     dbRestarts.push(performance.now() - s0);
   };
   const stopAll = async () => {

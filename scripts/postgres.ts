@@ -1,6 +1,6 @@
 // Levelwire's own PostgreSQL cluster: Debian's binaries, a data folder inside the
 // project (or a temp folder when the postgres user cannot reach it), loopback only.
-import { execFileSync } from 'node:child_process';
+import { execFile, execFileSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { chownSync, existsSync, mkdirSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -8,7 +8,7 @@ import path from 'node:path';
 import pg from 'pg';
 import { ensureDebianPackage } from './apt';
 
-export type Cluster = { url: string; port: number; dataDir: string; stop: () => void; restart: () => void };
+export type Cluster = { url: string; port: number; dataDir: string; stop: () => void; restart: () => Promise<void> };
 
 /** The newest installed PostgreSQL version's bin folder (installs Debian's package when missing). */
 export function binDir(): string {
@@ -27,9 +27,13 @@ export function binDir(): string {
 
 const isRoot = process.getuid?.() === 0;
 
+/** The command line for a PostgreSQL program: as the postgres user when this process is root (PostgreSQL refuses root). */
+function commandOf(bin: string, args: string[]): [string, string[]] {
+  return isRoot ? ['runuser', ['-u', 'postgres', '--', bin, ...args]] : [bin, args];
+}
+
 function run(bin: string, args: string[], opts: { quiet?: boolean } = {}): string {
-  const cmd = isRoot ? 'runuser' : bin;
-  const full = isRoot ? ['-u', 'postgres', '--', bin, ...args] : args;
+  const [cmd, full] = commandOf(bin, args);
   return execFileSync(cmd, full, { encoding: 'utf8', stdio: opts.quiet ? 'pipe' : ['ignore', 'pipe', 'inherit'] });
 }
 
@@ -111,7 +115,11 @@ export async function startCluster(opts: { name: string; port: number; database:
     run(pgctl, ['-D', dataDir, '-l', path.join(path.dirname(dataDir), `${opts.name}.log`), '-w', '-t', '60', '-o', o, 'start'], { quiet: true });
   }
   await ensureDatabase(opts.port, opts.database);
-  /** A fast restart with the options it was started with (the fault suite restarts it under load). */
-  const restart = () => void run(pgctl, ['-D', dataDir, '-l', path.join(path.dirname(dataDir), `${opts.name}.log`), '-m', 'fast', '-w', '-t', '60', 'restart'], { quiet: true });
+  /** A fast restart with the options it was started with, without blocking this process (the fault suite's clients keep sending meanwhile). */
+  const restart = () =>
+    new Promise<void>((resolve, reject) => {
+      const [cmd, full] = commandOf(pgctl, ['-D', dataDir, '-l', path.join(path.dirname(dataDir), `${opts.name}.log`), '-m', 'fast', '-w', '-t', '60', 'restart']);
+      execFile(cmd, full, (err) => (err ? reject(err) : resolve()));
+    });
   return { url: `postgres://postgres@127.0.0.1:${opts.port}/${opts.database}`, port: opts.port, dataDir, stop, restart };
 }

@@ -1,6 +1,7 @@
 // Production server processes for the fault suite: started, killed (SIGKILL or SIGTERM) and started again.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { createWriteStream, mkdirSync } from 'node:fs';
+import net from 'node:net';
 import path from 'node:path';
 import { waitForHealth } from '../../scripts/setup';
 
@@ -32,6 +33,16 @@ export class ServerProcess {
   }
 
   async start(): Promise<void> {
+    // A server left from another run would answer the health check in this one's place.
+    const taken = await new Promise<boolean>((resolve) => {
+      const probe = net.connect(this.port, '127.0.0.1');
+      probe.once('connect', () => {
+        probe.destroy();
+        resolve(true);
+      });
+      probe.once('error', () => resolve(false));
+    });
+    if (taken) throw new Error(`port ${this.port} is already in use (a server left from another run?)`);
     mkdirSync(this.logDir, { recursive: true });
     const log = createWriteStream(path.join(this.logDir, `${this.name}.log`), { flags: 'a' });
     this.child = spawn(process.execPath, [...this.nodeArgs, 'dist/server.js'], {
