@@ -110,33 +110,10 @@ async function findById(tx: Tx, e: { sessionId: string; id: string; type: EventT
 
 async function insertEvent(tx: Tx, head: { lastSeq: number; lastHash: string }, e: NewEvent): Promise<Appended> {
   const seq = head.lastSeq + 1;
-  const serverTs = new Date();
-  const content = {
-    seq,
-    id: e.id,
-    type: e.type,
-    payload: e.payload,
-    actorId: e.actorId,
-    actorRole: e.actorRole,
-    serverTs: serverTs.toISOString(),
-  };
+  const content = { seq, id: e.id, type: e.type, payload: e.payload, actorId: e.actorId, actorRole: e.actorRole, serverTs: new Date().toISOString() };
   const hash = eventHash(head.lastHash, content);
-  const [row] = await tx
-    .insert(sessionEvents)
-    .values({
-      sessionId: e.sessionId,
-      seq,
-      id: e.id,
-      type: e.type,
-      payload: e.payload,
-      actorId: e.actorId,
-      actorRole: e.actorRole,
-      clientTs: e.clientTs ? new Date(e.clientTs) : null,
-      serverTs,
-      prevHash: head.lastHash,
-      hash,
-    })
-    .returning();
+  const event = { ...content, sessionId: e.sessionId, clientTs: e.clientTs ?? null, prevHash: head.lastHash, hash } as SessionEvent;
+  const [row] = await tx.insert(sessionEvents).values(eventRow(event)).returning();
   await tx.update(levelingSessions).set({ lastSeq: seq, lastHash: hash }).where(eq(levelingSessions.id, e.sessionId));
   head.lastSeq = seq;
   head.lastHash = hash;
