@@ -2,7 +2,7 @@
 
 import { useMutation, useQuery } from '@tanstack/react-query';
 import Link from 'next/link';
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import type { MachineRow } from '@/db/queries/machines';
 import type { Page } from '@/lib/list-query';
 import { apiFetch } from './api';
@@ -79,6 +79,7 @@ function MachineChoice({ value, onChange }: { value: MachineRow | null; onChange
 export function ImportForm() {
   const [file, setFile] = useState<{ name: string; text: string } | null>(null);
   const [machine, setMachine] = useState<MachineRow | null>(null);
+  const input = useRef<HTMLInputElement>(null);
   const run = useMutation({
     mutationFn: async ({ text, machineId }: { text: string; machineId: string | null }): Promise<Imported> => {
       const res = await fetch(`/api/sessions/import${machineId ? `?${new URLSearchParams({ machineId })}` : ''}`, {
@@ -92,6 +93,15 @@ export function ImportForm() {
       return data;
     },
   });
+  const choose = async (chosen: File | undefined) => {
+    run.reset();
+    setFile(chosen ? { name: chosen.name, text: await chosen.text() } : null);
+  };
+  // A file chosen before the page finished loading fired its change before React listened: read it now, once.
+  useEffect(() => {
+    const early = input.current?.files?.[0];
+    if (early) void choose(early);
+  }, []);
   const refusal = (run.error as (Error & { refusal?: Refusal }) | null)?.refusal;
   const preview = file ? previewOf(file.name, file.text) : null;
   const machineRefused = refusal?.field === 'machineId';
@@ -103,11 +113,8 @@ export function ImportForm() {
           type="file"
           accept=".json,application/json"
           className="min-h-12 rounded-lg border-2 border-ink bg-card p-2 font-normal"
-          onChange={async (e) => {
-            const chosen = e.target.files?.[0];
-            run.reset();
-            setFile(chosen ? { name: chosen.name, text: await chosen.text() } : null);
-          }}
+          ref={input}
+          onChange={(e) => void choose(e.target.files?.[0])}
         />
       </label>
       {preview && 'error' in preview && (
