@@ -23,6 +23,7 @@ import type {
 import { moveOfTurns, stageChecklist } from './derive';
 import type { Part, ReadingPayload, SessionEvent } from './events';
 import { foldEvents, type SessionState } from './fold';
+import { groupAppender } from './group-append';
 
 /** What the caller is in a session: a participant's part, or a reader (reviewers and admins read every session). */
 export type Standing = Part | 'reader';
@@ -66,9 +67,21 @@ export async function accessSession(db: Db, actor: Actor, sessionId: string): Pr
   assertCan(actor, 'session:view');
   const session = await getSessionAccess(db, { sessionId, userId: actor.id, organisationId: actor.organisationId });
   if (!session) throw new AppError('not_found:session', 'No such session');
-  const standing: Standing | null = session.part ?? (actor.role === 'reviewer' || actor.role === 'admin' ? 'reader' : null);
+  return { session, standing: standingOf(actor, session.part) };
+}
+
+/** The caller's standing from their part in the session (null when they have none): 403 when they take no part. */
+export function standingOf(actor: Actor, part: Part | null): Standing {
+  const standing: Standing | null = part ?? (actor.role === 'reviewer' || actor.role === 'admin' ? 'reader' : null);
   if (!standing) throw new AppError('forbidden:session', 'You do not take part in this session; ask its technician to add you');
-  return { session, standing };
+  return standing;
+}
+
+/** Refuses `command` to a standing that may not send it (403 naming who may). */
+export function assertMaySend(standing: Standing, command: SessionCommand): void {
+  if ((COMMAND_PARTS[command] as readonly Standing[]).includes(standing)) return;
+  const who = COMMAND_PARTS[command].join(' or ');
+  throw new AppError(`forbidden:${command.split(':')[0]}`, `Only the session’s ${who} ${doing[command]}; you are ${standing === 'reader' ? 'reading it' : `its ${standing}`}`);
 }
 
 /** The session with its machine, if the actor may see it (see accessSession). */
@@ -82,10 +95,7 @@ export async function loadSessionFor(db: Db, actor: Actor, sessionId: string) {
 /** Checks the caller may send `command`: the right part in the session (whether it is still live is checked at the append). */
 export async function accessForCommand(db: Db, actor: Actor, sessionId: string, command: SessionCommand): Promise<SessionAccess> {
   const access = await accessSession(db, actor, sessionId);
-  if (!(COMMAND_PARTS[command] as readonly Standing[]).includes(access.standing)) {
-    const who = COMMAND_PARTS[command].join(' or ');
-    throw new AppError(`forbidden:${command.split(':')[0]}`, `Only the session’s ${who} ${doing[command]}; you are ${access.standing === 'reader' ? 'reading it' : `its ${access.standing}`}`);
-  }
+  assertMaySend(access.standing, command);
   return access;
 }
 
@@ -138,26 +148,54 @@ async function commit(
 }
 
 /**
+ * An append by group commit (see GroupAppender): the caller's access is checked in the batch, under the session's
+ * row lock, with the same answers as accessForCommand; `build` reads the locked head only. Broadcast after the commit.
+ */
+async function commitGrouped(
+  db: Db,
+  actor: Actor,
+  command: SessionCommand,
+  key: { sessionId: string; id: string; type: NewEvent['type'] },
+  build: (head: SessionHead & { levelDivisionUrad: number }) => NewEvent,
+  states: readonly LevelingSession['state'][] = ['live'],
+): Promise<Done> {
+  assertCan(actor, 'session:view');
+  const result = await groupAppender(db).append({
+    actor,
+    key,
+    states,
+    admit: (part) => assertMaySend(standingOf(actor, part), command),
+    assertState: (head) => assertState(head, states),
+    build,
+  });
+  if (!result.duplicate) broadcast(result.event);
+  return result;
+}
+
+/**
  * Records a reading: checks the caller and the session, converts it (divisions to slope with the session's level,
  * a reversal to slope and zero error), appends it, then broadcasts it after the commit. Idempotent by command id.
+ * Level, reversal and sweep readings go by group commit; a height reading names a screw, which is checked against the
+ * log, so it takes the single append.
  */
 export async function recordReading(db: Db, actor: Actor, cmd: ReadingSubmit): Promise<Done> {
-  const { session } = await accessForCommand(db, actor, cmd.sessionId, 'reading:submit');
   const r = cmd.reading;
-  return commit(db, { sessionId: cmd.sessionId, id: cmd.id, type: 'reading:recorded' }, async (tx) => {
+  const key = { sessionId: cmd.sessionId, id: cmd.id, type: 'reading:recorded' } as const;
+  if (r.kind === 'height') {
+    await accessForCommand(db, actor, cmd.sessionId, 'reading:submit');
+    return commit(db, key, async (tx) => {
+      screwOf(await stateOf(tx, cmd.sessionId), r.screwId, 'reading.screwId');
+      return { ...base(actor, cmd), type: 'reading:recorded', payload: r };
+    });
+  }
+  return commitGrouped(db, actor, 'reading:submit', key, (head) => {
     let payload: ReadingPayload;
     switch (r.kind) {
       case 'level':
-        payload = { ...r, slopeUrad: readingToSlopeUrad(r.divisions, session.levelDivisionUrad) };
+        payload = { ...r, slopeUrad: readingToSlopeUrad(r.divisions, head.levelDivisionUrad) };
         break;
-      case 'reversal': {
-        const check = reversalCheck(r.firstDiv, r.secondDiv);
-        payload = { ...r, ...check };
-        break;
-      }
-      case 'height':
-        screwOf(await stateOf(tx, cmd.sessionId), r.screwId, 'reading.screwId');
-        payload = r;
+      case 'reversal':
+        payload = { ...r, ...reversalCheck(r.firstDiv, r.secondDiv) };
         break;
       case 'sweep':
         payload = r;
@@ -168,8 +206,7 @@ export async function recordReading(db: Db, actor: Actor, cmd: ReadingSubmit): P
 }
 
 export async function enterStage(db: Db, actor: Actor, cmd: StageEnter): Promise<Done> {
-  await accessForCommand(db, actor, cmd.sessionId, 'stage:enter');
-  return commit(db, { sessionId: cmd.sessionId, id: cmd.id, type: 'stage:entered' }, async () => ({
+  return commitGrouped(db, actor, 'stage:enter', { sessionId: cmd.sessionId, id: cmd.id, type: 'stage:entered' }, () => ({
     ...base(actor, cmd),
     type: 'stage:entered',
     payload: { stage: cmd.stage },
@@ -227,8 +264,7 @@ export async function answerMove(db: Db, actor: Actor, cmd: MoveAnswer): Promise
 }
 
 export async function postNote(db: Db, actor: Actor, cmd: NotePost): Promise<Done> {
-  await accessForCommand(db, actor, cmd.sessionId, 'note:post');
-  return commit(db, { sessionId: cmd.sessionId, id: cmd.id, type: 'note:posted' }, async () => ({
+  return commitGrouped(db, actor, 'note:post', { sessionId: cmd.sessionId, id: cmd.id, type: 'note:posted' }, () => ({
     ...base(actor, cmd),
     type: 'note:posted',
     payload: { text: cmd.text },
