@@ -49,7 +49,9 @@ async function cappedBytes(req: Request, maxBytes: number, surface: string, labe
     if (done) break;
     size += value.byteLength;
     if (size > maxBytes) {
-      await reader.cancel();
+      // Left unread rather than cancelled: cancelling destroys the connection before the 400 is written, and the
+      // client would see a reset instead of the answer. The server closes the connection once the answer is out.
+      reader.releaseLock();
       throw tooLarge();
     }
     chunks.push(value);

@@ -1,9 +1,10 @@
-// `npm run bench:ingest`: readings per second durably stored through the real append path (`recordReading`: the
-// caller's access, the session row locked, the hash chained, one commit per reading), with 1, 10 and 50 sessions
-// taking readings at once, against raw batched inserts of the same rows (the baseline, measured in the same run).
-// A throwaway cluster on :54399, restarted with fsync on so that a commit is on disk when it is acknowledged.
-// Also measured, not shipped: PostgreSQL's commit_delay, synchronous_commit off (diagnosis only) and a prototype of
-// group commit in the append path. `-- --readings=N --runs=N --sessions=1,10,50` change the sizes.
+// `npm run bench:ingest`: readings per second durably stored through the real append path (`recordReading`: group
+// commit, lib/session/group-append.ts: the caller's access and the session rows locked, the hash chained, committed
+// before each caller is answered), with 1 to 500 sessions taking readings at once, each session's readings one after
+// another as the field view's outbox sends them, against raw batched inserts of the same rows (the baseline, measured
+// in the same run). Also measured: the single append (one transaction per reading, as height readings, moves and
+// checks are stored) and, for diagnosis only, synchronous_commit off. A throwaway cluster on :54399, restarted with
+// fsync on so that a commit is on disk when it is acknowledged. `-- --readings=N --runs=N --sessions=1,10,50,200,500`.
 import { performance } from 'node:perf_hooks';
 import { and, eq, sql } from 'drizzle-orm';
 import pg from 'pg';
@@ -15,9 +16,10 @@ import type { Actor } from '../lib/auth/actor';
 import { readingToSlopeUrad } from '../lib/leveling/level';
 import { seededRandom } from '../lib/leveling';
 import type { LevelReadingInput } from '../lib/session/commands';
-import { listEventsBySession } from '../db/queries/events';
+import { appendChecked, listEventsBySession } from '../db/queries/events';
 import type { SessionEvent } from '../lib/session/events';
 import { eventHash, verifyChain } from '../lib/session/hash-chain';
+import { groupAppender } from '../lib/session/group-append';
 import { accessForCommand, recordReading } from '../lib/session/service';
 import { startCluster } from './postgres';
 import { prepareDatabase } from './setup';
@@ -25,7 +27,7 @@ import { prepareDatabase } from './setup';
 const arg = (name: string, fallback: number) => Number(process.argv.find((a) => a.startsWith(`--${name}=`))?.split('=')[1] ?? fallback);
 const READINGS = arg('readings', 3_000);
 const RUNS = arg('runs', 3);
-const CONCURRENCY = (process.argv.find((a) => a.startsWith('--sessions='))?.split('=')[1] ?? '1,10,50').split(',').map(Number);
+const CONCURRENCY = (process.argv.find((a) => a.startsWith('--sessions='))?.split('=')[1] ?? '1,10,50,200,500').split(',').map(Number);
 const BATCH = 500;
 /** The server's pool size (db/client.ts's default): the real path shares it as the running process would. */
 const POOL = 10;
@@ -48,16 +50,10 @@ let cluster = await prepareDatabase({ name: 'pg-bench-ingest', port: 54399, data
 cluster.stop();
 cluster = await startCluster({ name: 'pg-bench-ingest', port: 54399, database: 'levelwire_bench_ingest' });
 const db = createDb(cluster.url, POOL);
-// Two diagnostic pools for the widest case, same path, one setting changed per connection:
-// - commit_delay: PostgreSQL's own group commit (a committing backend waits this long, in µs, for others to join
-//   its WAL flush when at least commit_siblings transactions are open); every commit still waits for its flush.
-// - synchronous_commit off: the commit returns before its WAL is flushed (NOT durable: a crash may lose the last
-//   acknowledged readings), measured only to show what the flush costs.
+// A diagnostic pool for the widest case, same path: synchronous_commit off returns a commit before its WAL is flushed
+// (NOT durable: a crash may lose the last acknowledged readings), measured only to show what the flush costs.
 const withOption = (o: string) => createDb(`${cluster.url}?options=${encodeURIComponent(o)}`, POOL);
-const diagnostics = [
-  { name: 'commit_delay 1000 µs, commit_siblings 5 (durable)', db: withOption('-c commit_delay=1000 -c commit_siblings=5') },
-  { name: 'synchronous_commit off (not durable; diagnosis only)', db: withOption('-c synchronous_commit=off') },
-];
+const diagnostics = [{ name: 'synchronous_commit off (not durable; diagnosis only)', db: withOption('-c synchronous_commit=off') }];
 const WIDEST = Math.max(...CONCURRENCY);
 try {
   const settings = await db.execute<{ name: string; setting: string }>(sql`select name, setting from pg_settings where name in ('fsync', 'synchronous_commit', 'wal_sync_method', 'commit_delay', 'server_version')`);
@@ -77,117 +73,47 @@ try {
   };
 
   /** The real path: each session's readings one after another (acknowledged before the next), the sessions at once. */
-  async function realPath(sessions: number, via = db): Promise<number> {
+  async function realPath(sessions: number, via = db): Promise<{ rate: number; meanBatch: number }> {
     const ids = await Promise.all(Array.from({ length: sessions }, open));
     const per = ids.map((_, i) => Math.floor(READINGS / sessions) + (i < READINGS % sessions ? 1 : 0));
     const work = per.map((n) => Array.from({ length: n }, reading));
+    const stats = groupAppender(via).stats;
+    const before = { ...stats };
     const t = performance.now();
     await Promise.all(
       ids.map(async (sessionId, i) => {
         for (const r of work[i]!) await recordReading(via, actor, { id: crypto.randomUUID(), sessionId, reading: r });
       }),
     );
-    return READINGS / ((performance.now() - t) / 1000);
+    const rate = READINGS / ((performance.now() - t) / 1000);
+    return { rate, meanBatch: (stats.appends - before.appends) / Math.max(1, stats.batches - before.batches) };
   }
 
-  /**
-   * A prototype of group commit, measured, not shipped: each command is checked as recordReading checks it (the
-   * caller's access), then waits in one queue; whatever waits when the previous batch has committed goes in the
-   * next transaction: every session's row locked at once (in id order, so two batches cannot deadlock), resent ids
-   * looked up at once, each reading chained to its session's head in arrival order, one multi-row INSERT, one UPDATE
-   * of the heads, one commit; each caller is answered after that commit. With one reading in flight per session
-   * (each waits for its acknowledgement), a batch holds at most one reading of each session.
-   */
-  function groupCommitter() {
-    type Waiting = { sessionId: string; id: string; reading: LevelReadingInput; done: (seq: number) => void; fail: (e: unknown) => void };
-    let queue: Waiting[] = [];
-    let running = false;
-    const batches: number[] = [];
-    async function flush(): Promise<void> {
-      running = true;
-      while (queue.length > 0) {
-        const batch = queue;
-        queue = [];
-        batches.push(batch.length);
-        const client = await db.$client.connect();
-        try {
-          await client.query('begin');
-          const ids = [...new Set(batch.map((w) => w.sessionId))].sort();
-          const heads = new Map(
-            (
-              await client.query<{ id: string; last_seq: string; last_hash: string; state: string; level_division_urad: number }>(
-                'select id, last_seq, last_hash, state, level_division_urad from leveling_sessions where id = any($1::uuid[]) order by id for update',
-                [ids],
-              )
-            ).rows.map((r) => [r.id, { seq: Number(r.last_seq), hash: r.last_hash, state: r.state, division: r.level_division_urad }]),
-          );
-          const resent = new Set((await client.query<{ id: string }>('select id from session_events where id = any($1::uuid[])', [batch.map((w) => w.id)])).rows.map((r) => r.id));
-          const rows: unknown[][] = [];
-          const seqs: number[] = [];
-          for (const w of batch) {
-            const head = heads.get(w.sessionId)!;
-            if (head.state !== 'live' || resent.has(w.id)) throw new Error('the prototype takes live sessions and new ids only');
-            const serverTs = new Date();
-            const content = {
-              seq: head.seq + 1,
-              id: w.id,
-              type: 'reading:recorded' as const,
-              payload: { ...w.reading, slopeUrad: readingToSlopeUrad(w.reading.divisions, head.division) },
-              actorId: actor.id,
-              actorRole: actor.role,
-              serverTs: serverTs.toISOString(),
-            };
-            const hash = eventHash(head.hash, content);
-            rows.push([w.sessionId, content.seq, w.id, content.type, JSON.stringify(content.payload), actor.id, actor.role, null, serverTs, head.hash, hash]);
-            seqs.push(content.seq);
-            head.seq = content.seq;
-            head.hash = hash;
-          }
-          const values = rows.map((_, j) => `(${Array.from({ length: 11 }, (_, c) => `$${j * 11 + c + 1}`).join(', ')})`).join(', ');
-          await client.query(`insert into session_events (session_id, seq, id, type, payload, actor_id, actor_role, client_ts, server_ts, prev_hash, hash) values ${values}`, rows.flat());
-          const touched = [...heads.entries()];
-          await client.query(
-            'update leveling_sessions s set last_seq = v.seq, last_hash = v.hash from (select unnest($1::uuid[]) as id, unnest($2::bigint[]) as seq, unnest($3::text[]) as hash) v where s.id = v.id',
-            [touched.map(([id]) => id), touched.map(([, h]) => h.seq), touched.map(([, h]) => h.hash)],
-          );
-          await client.query('commit');
-          batch.forEach((w, k) => w.done(seqs[k]!));
-        } catch (e) {
-          await client.query('rollback').catch(() => undefined);
-          batch.forEach((w) => w.fail(e));
-        } finally {
-          client.release();
-        }
-      }
-      running = false;
-    }
-    return {
-      batches,
-      async submit(sessionId: string, reading: LevelReadingInput): Promise<number> {
-        await accessForCommand(db, actor, sessionId, 'reading:submit');
-        const seq = new Promise<number>((done, fail) => queue.push({ sessionId, id: crypto.randomUUID(), reading, done, fail }));
-        if (!running) void flush();
-        return seq;
-      },
-    };
-  }
-
-  const groupedSessions: string[] = [];
-  async function groupCommitPath(sessions: number): Promise<{ rate: number; meanBatch: number }> {
+  /** The single append for comparison: the caller's access, then one transaction per reading (appendChecked). */
+  async function singlePath(sessions: number): Promise<number> {
     const ids = await Promise.all(Array.from({ length: sessions }, open));
-    groupedSessions.push(...ids);
     const per = ids.map((_, i) => Math.floor(READINGS / sessions) + (i < READINGS % sessions ? 1 : 0));
     const work = per.map((n) => Array.from({ length: n }, reading));
-    const committer = groupCommitter();
     const t = performance.now();
     await Promise.all(
       ids.map(async (sessionId, i) => {
-        for (const r of work[i]!) await committer.submit(sessionId, r);
+        for (const r of work[i]!) {
+          const { session } = await accessForCommand(db, actor, sessionId, 'reading:submit');
+          const id = crypto.randomUUID();
+          await appendChecked(db, { sessionId, id, type: 'reading:recorded' }, async () => ({
+            sessionId,
+            id,
+            type: 'reading:recorded',
+            payload: { ...r, slopeUrad: readingToSlopeUrad(r.divisions, session.levelDivisionUrad) },
+            actorId: actor.id,
+            actorRole: actor.role,
+          }));
+        }
       }),
     );
-    const rate = READINGS / ((performance.now() - t) / 1000);
-    return { rate, meanBatch: committer.batches.reduce((a, b) => a + b, 0) / committer.batches.length };
+    return READINGS / ((performance.now() - t) / 1000);
   }
+  const SINGLE_AT = Math.min(50, Math.max(...CONCURRENCY));
 
   /** The baseline: the same rows, hashes chained beforehand, as multi-row INSERTs of BATCH rows, each statement its own commit. */
   async function baseline(): Promise<number> {
@@ -232,45 +158,39 @@ try {
     `${READINGS.toLocaleString('en')} readings a run, ${RUNS} runs; pool of ${POOL}; PostgreSQL ${setting.server_version}, fsync ${setting.fsync}, synchronous_commit ${setting.synchronous_commit}, wal_sync_method ${setting.wal_sync_method}\n`,
   );
   const base: number[] = [];
-  const real = new Map<number, number[]>(CONCURRENCY.map((c) => [c, []]));
+  const real = new Map<number, { rate: number; meanBatch: number }[]>(CONCURRENCY.map((c) => [c, []]));
+  const single: number[] = [];
   const diag = diagnostics.map(() => [] as number[]);
-  const grouped = new Map<number, { rate: number; meanBatch: number }[]>(CONCURRENCY.filter((c) => c > 1).map((c) => [c, []]));
   // Runs interleave the baseline and the real path, so a slow minute of the shared machine falls on both.
   for (let run = 0; run < RUNS; run++) {
     base.push(await baseline());
     for (const c of CONCURRENCY) real.get(c)!.push(await realPath(c));
-    for (const [i, d] of diagnostics.entries()) diag[i]!.push(await realPath(WIDEST, d.db));
-    for (const [c, xs] of grouped) xs.push(await groupCommitPath(c));
+    single.push(await singlePath(SINGLE_AT));
+    for (const [i, d] of diagnostics.entries()) diag[i]!.push((await realPath(WIDEST, d.db)).rate);
     console.log(
-      `run ${run + 1}: baseline ${base.at(-1)!.toFixed(0)} rows/s; ${CONCURRENCY.map((c) => `${c} session${c > 1 ? 's' : ''} ${real.get(c)!.at(-1)!.toFixed(0)}/s`).join(', ')}; ${diagnostics.map((d, i) => `${d.name.split(' (')[0]} ${diag[i]!.at(-1)!.toFixed(0)}/s`).join(', ')}`,
+      `run ${run + 1}: baseline ${base.at(-1)!.toFixed(0)} rows/s; ${CONCURRENCY.map((c) => `${c} session${c > 1 ? 's' : ''} ${real.get(c)!.at(-1)!.rate.toFixed(0)}/s`).join(', ')}; single append ${single.at(-1)!.toFixed(0)}/s; ${diagnostics.map((d, i) => `${d.name.split(' (')[0]} ${diag[i]!.at(-1)!.toFixed(0)}/s`).join(', ')}`,
     );
   }
   const b = median(base);
-  console.log('\n| path | sessions at once | readings/s (median of runs) | runs | against the baseline |');
-  console.log('|---|---|---|---|---|');
-  console.log(`| baseline: multi-row INSERT of ${BATCH}, hashes precomputed | — | ${b.toFixed(0)} | ${base.map((x) => x.toFixed(0)).join(', ')} | 1.00 |`);
+  console.log('\n| path | sessions at once | readings/s (median of runs) | runs | mean batch | against the baseline |');
+  console.log('|---|---|---|---|---|---|');
+  console.log(`| baseline: multi-row INSERT of ${BATCH}, hashes precomputed | — | ${b.toFixed(0)} | ${base.map((x) => x.toFixed(0)).join(', ')} | ${BATCH} | 1.00 |`);
   for (const c of CONCURRENCY) {
-    const m = median(real.get(c)!);
-    console.log(`| real: recordReading, one commit each | ${c} | ${m.toFixed(0)} | ${real.get(c)!.map((x) => x.toFixed(0)).join(', ')} | ${(m / b).toFixed(3)} |`);
+    const xs = real.get(c)!;
+    const m = median(xs.map((x) => x.rate));
+    console.log(`| real: recordReading (group commit) | ${c} | ${m.toFixed(0)} | ${xs.map((x) => x.rate.toFixed(0)).join(', ')} | ${median(xs.map((x) => x.meanBatch)).toFixed(1)} | ${(m / b).toFixed(3)} |`);
   }
+  console.log(`| single append, one transaction per reading | ${SINGLE_AT} | ${median(single).toFixed(0)} | ${single.map((x) => x.toFixed(0)).join(', ')} | 1 | ${(median(single) / b).toFixed(3)} |`);
   for (const [i, d] of diagnostics.entries()) {
     const m = median(diag[i]!);
-    console.log(`| real, ${d.name} | ${WIDEST} | ${m.toFixed(0)} | ${diag[i]!.map((x) => x.toFixed(0)).join(', ')} | ${(m / b).toFixed(3)} |`);
+    console.log(`| real, ${d.name} | ${WIDEST} | ${m.toFixed(0)} | ${diag[i]!.map((x) => x.toFixed(0)).join(', ')} | | ${(m / b).toFixed(3)} |`);
   }
-  for (const [c, xs] of grouped) {
-    const m = median(xs.map((x) => x.rate));
-    console.log(`| prototype: group commit (not shipped), mean batch ${median(xs.map((x) => x.meanBatch)).toFixed(1)} | ${c} | ${m.toFixed(0)} | ${xs.map((x) => x.rate.toFixed(0)).join(', ')} | ${(m / b).toFixed(3)} |`);
-  }
-  const chains = await Promise.all(groupedSessions.map(async (sessionId) => verifyChain((await listEventsBySession(db, { sessionId })) as SessionEvent[])));
-  console.log(`group commit prototype: ${chains.filter((v) => v.ok).length} of ${chains.length} sessions' hash chains intact and gapless`);
-  const best = Math.max(...CONCURRENCY.map((c) => median(real.get(c)!)));
-  console.log(`\nbest real path ${best.toFixed(0)} readings/s = ${(best / b).toFixed(3)} of the baseline; target at least 0.5: ${best / b >= 0.5 ? 'met' : 'NOT met'}`);
-  if (grouped.size > 0) {
-    const proto = Math.max(...[...grouped.values()].map((xs) => median(xs.map((x) => x.rate))));
-    console.log(`group commit prototype at best ${proto.toFixed(0)} readings/s = ${(proto / b).toFixed(3)} of the baseline, ${(proto / best).toFixed(1)}x the real path`);
-  }
+  const chains = await Promise.all(opened.map(async (sessionId) => verifyChain((await listEventsBySession(db, { sessionId })) as SessionEvent[])));
+  console.log(`hash chains intact and gapless: ${chains.filter((v) => v.ok).length} of ${chains.length} sessions`);
+  const best = Math.max(...CONCURRENCY.map((c) => median(real.get(c)!.map((x) => x.rate))));
+  console.log(`\nbest real path ${best.toFixed(0)} readings/s = ${(best / b).toFixed(3)} of the baseline; target at least 0.5: ${best / b >= 0.5 ? 'met' : 'NOT met'}; ${(best / median(single)).toFixed(1)}x the single append`);
   const [{ count }] = (await db.execute<{ count: string }>(sql`select count(*)::text as count from session_events where type = 'reading:recorded' and session_id = any(${sql.raw(`array[${opened.map((id) => `'${id}'`).join(',')}]::uuid[]`)})`)).rows as [{ count: string }];
-  const expected = RUNS * (CONCURRENCY.length + diagnostics.length + grouped.size + 1) * READINGS;
+  const expected = RUNS * (CONCURRENCY.length + diagnostics.length + 2) * READINGS;
   console.log(`readings stored by the benchmark: ${Number(count).toLocaleString('en')} of ${expected.toLocaleString('en')} sent`);
 } finally {
   for (const d of diagnostics) await d.db.$client.end();
