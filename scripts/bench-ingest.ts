@@ -73,20 +73,25 @@ try {
   };
 
   /** The real path: each session's readings one after another (acknowledged before the next), the sessions at once. */
-  async function realPath(sessions: number, via = db): Promise<{ rate: number; meanBatch: number }> {
+  async function realPath(sessions: number, via = db): Promise<{ rate: number; meanBatch: number; cpuUs: number; cpuShare: number }> {
     const ids = await Promise.all(Array.from({ length: sessions }, open));
     const per = ids.map((_, i) => Math.floor(READINGS / sessions) + (i < READINGS % sessions ? 1 : 0));
     const work = per.map((n) => Array.from({ length: n }, reading));
     const stats = groupAppender(via).stats;
     const before = { ...stats };
+    const cpu = process.cpuUsage();
     const t = performance.now();
     await Promise.all(
       ids.map(async (sessionId, i) => {
         for (const r of work[i]!) await recordReading(via, actor, { id: crypto.randomUUID(), sessionId, reading: r });
       }),
     );
-    const rate = READINGS / ((performance.now() - t) / 1000);
-    return { rate, meanBatch: (stats.appends - before.appends) / Math.max(1, stats.batches - before.batches) };
+    const wall = performance.now() - t;
+    const used = process.cpuUsage(cpu);
+    const rate = READINGS / (wall / 1000);
+    // CPU of this process (the appender and the callers) per reading, in µs, and as a share of the wall time.
+    const cpuUs = (used.user + used.system) / READINGS;
+    return { rate, meanBatch: (stats.appends - before.appends) / Math.max(1, stats.batches - before.batches), cpuUs, cpuShare: (used.user + used.system) / 1000 / wall };
   }
 
   /** The single append for comparison: the caller's access, then one transaction per reading (appendChecked). */
@@ -158,7 +163,7 @@ try {
     `${READINGS.toLocaleString('en')} readings a run, ${RUNS} runs; pool of ${POOL}; PostgreSQL ${setting.server_version}, fsync ${setting.fsync}, synchronous_commit ${setting.synchronous_commit}, wal_sync_method ${setting.wal_sync_method}\n`,
   );
   const base: number[] = [];
-  const real = new Map<number, { rate: number; meanBatch: number }[]>(CONCURRENCY.map((c) => [c, []]));
+  const real = new Map<number, { rate: number; meanBatch: number; cpuUs: number; cpuShare: number }[]>(CONCURRENCY.map((c) => [c, []]));
   const single: number[] = [];
   const diag = diagnostics.map(() => [] as number[]);
   // Runs interleave the baseline and the real path, so a slow minute of the shared machine falls on both.
@@ -172,18 +177,20 @@ try {
     );
   }
   const b = median(base);
-  console.log('\n| path | sessions at once | readings/s (median of runs) | runs | mean batch | against the baseline |');
-  console.log('|---|---|---|---|---|---|');
-  console.log(`| baseline: multi-row INSERT of ${BATCH}, hashes precomputed | — | ${b.toFixed(0)} | ${base.map((x) => x.toFixed(0)).join(', ')} | ${BATCH} | 1.00 |`);
+  console.log('\n| path | sessions at once | readings/s (median of runs) | runs | mean batch | Node CPU µs a reading (share of wall) | against the baseline |');
+  console.log('|---|---|---|---|---|---|---|');
+  console.log(`| baseline: multi-row INSERT of ${BATCH}, hashes precomputed | — | ${b.toFixed(0)} | ${base.map((x) => x.toFixed(0)).join(', ')} | ${BATCH} | | 1.00 |`);
   for (const c of CONCURRENCY) {
     const xs = real.get(c)!;
     const m = median(xs.map((x) => x.rate));
-    console.log(`| real: recordReading (group commit) | ${c} | ${m.toFixed(0)} | ${xs.map((x) => x.rate.toFixed(0)).join(', ')} | ${median(xs.map((x) => x.meanBatch)).toFixed(1)} | ${(m / b).toFixed(3)} |`);
+    const cpuUs = median(xs.map((x) => x.cpuUs));
+    const share = median(xs.map((x) => x.cpuShare));
+    console.log(`| real: recordReading (group commit) | ${c} | ${m.toFixed(0)} | ${xs.map((x) => x.rate.toFixed(0)).join(', ')} | ${median(xs.map((x) => x.meanBatch)).toFixed(1)} | ${cpuUs.toFixed(0)} (${(share * 100).toFixed(0)} %) | ${(m / b).toFixed(3)} |`);
   }
-  console.log(`| single append, one transaction per reading | ${SINGLE_AT} | ${median(single).toFixed(0)} | ${single.map((x) => x.toFixed(0)).join(', ')} | 1 | ${(median(single) / b).toFixed(3)} |`);
+  console.log(`| single append, one transaction per reading | ${SINGLE_AT} | ${median(single).toFixed(0)} | ${single.map((x) => x.toFixed(0)).join(', ')} | 1 | | ${(median(single) / b).toFixed(3)} |`);
   for (const [i, d] of diagnostics.entries()) {
     const m = median(diag[i]!);
-    console.log(`| real, ${d.name} | ${WIDEST} | ${m.toFixed(0)} | ${diag[i]!.map((x) => x.toFixed(0)).join(', ')} | | ${(m / b).toFixed(3)} |`);
+    console.log(`| real, ${d.name} | ${WIDEST} | ${m.toFixed(0)} | ${diag[i]!.map((x) => x.toFixed(0)).join(', ')} | | | ${(m / b).toFixed(3)} |`);
   }
   const chains = await Promise.all(opened.map(async (sessionId) => verifyChain((await listEventsBySession(db, { sessionId })) as SessionEvent[])));
   console.log(`hash chains intact and gapless: ${chains.filter((v) => v.ok).length} of ${chains.length} sessions`);

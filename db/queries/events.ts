@@ -185,7 +185,8 @@ export function chainEvent(head: { lastSeq: number; lastHash: string }, e: NewEv
 export async function insertChained(client: pg.PoolClient, events: readonly SessionEvent[], heads: ReadonlyMap<string, { lastSeq: number; lastHash: string }>): Promise<void> {
   if (events.length === 0) return;
   const col = <T>(f: (e: SessionEvent) => T) => events.map(f);
-  const moved = [...heads.entries()].filter(([id]) => events.some((e) => e.sessionId === id));
+  const touched = new Set(events.map((e) => e.sessionId));
+  const moved = [...heads.entries()].filter(([id]) => touched.has(id));
   await client.query({
     name: 'levelwire.insert-chained',
     text: `with stored as (
