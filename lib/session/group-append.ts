@@ -38,6 +38,9 @@ export type GroupStats = { batches: number; appends: number; largest: number; fa
  * that is not live. One caller's refusal refuses only that caller. When the batch itself fails (not a refusal), each
  * of its appends is tried again alone, so one bad append cannot fail the others; a database outage fails them all
  * with the outage (retryable).
+ *
+ * One batch at a time by default: measured with `npm run bench:live` at 500 sessions, a second batch in flight cost
+ * more CPU (both batches lock and write) than it saved in waiting, and the p99 was worse (docs/benchmarks.md).
  */
 export class GroupAppender {
   private queue: Waiting[] = [];
@@ -46,7 +49,7 @@ export class GroupAppender {
 
   constructor(
     private readonly db: Db,
-    private readonly options: { maxInFlight: number; maxBatch: number } = { maxInFlight: 2, maxBatch: 400 },
+    private readonly options: { maxInFlight: number; maxBatch: number } = { maxInFlight: 1, maxBatch: 400 },
   ) {}
 
   append(job: QueuedAppend): Promise<Appended> {
