@@ -142,10 +142,14 @@ export class GroupAppender {
 
 type Outcome = Appended | { error: AppError };
 
-const appenders = new WeakMap<Db, GroupAppender>();
+// On globalThis, like the pool and the broadcaster: Next bundles its routes apart from server.ts, and a queue per
+// bundle would split the process's batches in two.
+const key = Symbol.for('levelwire.groupAppenders');
+const holder = globalThis as { [key]?: WeakMap<Db, GroupAppender> };
 
 /** The process's group appender for `db` (one queue per pool). */
 export function groupAppender(db: Db): GroupAppender {
+  const appenders = (holder[key] ??= new WeakMap());
   let a = appenders.get(db);
   if (!a) {
     a = new GroupAppender(db);
