@@ -17,7 +17,17 @@ const statusByKind = {
 export type ErrorKind = keyof typeof statusByKind;
 export type ErrorCode = `${ErrorKind}:${string}`;
 
+// A brand shared through the global symbol registry: Next bundles its routes apart from server.ts, so one process can
+// hold two copies of this module, and an AppError made by one copy (say, by the group appender both share through
+// globalThis) must still be an AppError to the other copy's `instanceof`.
+const brand = Symbol.for('levelwire.AppError');
+
 export class AppError extends Error {
+  static [Symbol.hasInstance](value: unknown): boolean {
+    return typeof value === 'object' && value !== null && (value as { [brand]?: unknown })[brand] === true;
+  }
+
+  readonly [brand] = true;
   readonly code: ErrorCode;
   readonly status: number;
   /** The input field at fault, dotted (`reading.divisions`), when there is one. */
