@@ -304,6 +304,9 @@ const median = (xs: number[]) => {
   return s.length ? s[Math.floor((s.length - 1) / 2)]! : Number.NaN;
 };
 
+/** Recovery times as "median / max", or "–" for a run without faults. */
+const recoveryOf = (r: Result, unit = '') => (r.recoveryMs.length ? `${Math.round(median(r.recoveryMs))} / ${Math.round(Math.max(...r.recoveryMs))}${unit}` : '–');
+
 async function main() {
   const t0 = performance.now();
   // `--no-build`: use the build in place (while sources change under you); otherwise build when stale.
@@ -353,7 +356,7 @@ async function main() {
           ? `  FAILED: ${r.problem}`
           : `  ${r.ok ? 'ok' : 'FAILED'}: sent ${r.sent}, stored ${r.stored}, duplicated ${r.duplicated}, lost ${r.lost}, ${r.inOrder ? 'in order' : 'OUT OF ORDER'}; ` +
               `expert missing ${r.expertMissing} (live ${r.expertLive}, caught up ${r.expertCaughtUp}); moves ${r.movesSent} sent / ${r.movesStored} stored / ${r.answersStored} answered; ` +
-              `chain ${r.chain}; ${r.faults} faults, recovery median ${Math.round(median(r.recoveryMs))} ms, max ${Math.round(Math.max(0, ...r.recoveryMs))} ms; ` +
+              `chain ${r.chain}; ${r.faults} faults, recovery median / max ${recoveryOf(r, ' ms')}; ` +
               `reconnects ${r.reconnects}, unanswered ${r.unanswered}, refused as retryable ${r.retried}, resends answered as already stored ${r.resentAnswered}; ${r.streamSeconds.toFixed(1)} s streaming, ${r.seconds.toFixed(1)} s in all` +
               (r.refused.length ? `; refused: ${r.refused.slice(0, 3).join(' | ')}` : '') +
               (r.problem ? `; problem: ${r.problem}` : ''),
@@ -371,8 +374,7 @@ async function main() {
       console.log(`| ${r.name} | | | | | | | | | | FAILED: ${r.problem} |`);
       continue;
     }
-    const rec = r.recoveryMs.length ? `${Math.round(median(r.recoveryMs))} / ${Math.round(Math.max(...r.recoveryMs))}` : '–';
-    console.log(`| ${r.name} | ${r.sent} | ${r.stored} | ${r.duplicated} | ${r.lost} | ${r.inOrder ? 'kept' : 'broken'} | ${r.expertMissing} | ${r.chain.startsWith('verifies') ? 'verifies' : 'BROKEN'} | ${r.faults} | ${rec} | ${r.ok ? 'ok' : 'FAILED'} |`);
+    console.log(`| ${r.name} | ${r.sent} | ${r.stored} | ${r.duplicated} | ${r.lost} | ${r.inOrder ? 'kept' : 'broken'} | ${r.expertMissing} | ${r.chain.startsWith('verifies') ? 'verifies' : 'BROKEN'} | ${r.faults} | ${recoveryOf(r)} | ${r.ok ? 'ok' : 'FAILED'} |`);
   }
   if (shutdownTimes.length) console.log(`SIGTERM to exit: ${shutdownTimes.map((t) => Math.round(t)).join(', ')} ms`);
   if (dbRestarts.length) console.log(`PostgreSQL restart (pg_ctl -m fast): ${dbRestarts.map((t) => Math.round(t)).join(', ')} ms`);
