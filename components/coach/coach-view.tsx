@@ -135,7 +135,7 @@ export function CoachView({ sessionId, standing, selfId, unitSystem, machineLabe
       <header className="flex flex-wrap items-center justify-between gap-3 xl:col-span-2">
         <div>
           <p className="text-sm font-semibold uppercase tracking-wide text-ink-soft">
-            Coach view · technician {technicianName} · {events.length > 0 ? `log #${state.seq}` : 'loading the log'}
+            Coach view · technician: {technicianName} · {events.length > 0 ? `log #${state.seq}` : 'loading the log'}
           </p>
           <h1 className="text-2xl font-bold">{state.machineLabel ?? machineLabel}</h1>
         </div>
