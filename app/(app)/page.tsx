@@ -65,7 +65,7 @@ export default async function HomePage() {
                     <span>
                       <span className="font-bold">{s.machineModel}</span> <span className="text-ink-soft">· {s.machineSerial}</span>
                       <span className="block text-ink-soft">
-                        {s.customerName} · {s.siteName} · technician {s.technicianName} · {s.lastSeq} events
+                        {s.customerName} · {s.siteName} · technician: {s.technicianName} · {s.lastSeq} events
                       </span>
                     </span>
                     <span className="flex flex-wrap items-center gap-3">
@@ -102,7 +102,7 @@ export default async function HomePage() {
                       <span className="font-bold">{s.machineModel}</span>
                       {s.demo && <span className="ml-2 rounded-full border-2 border-spirit px-2 text-sm font-bold text-spirit">Demo</span>}
                       <span className="block text-ink-soft">
-                        {s.customerName} · {s.siteName} · technician {s.technicianName}
+                        {s.customerName} · {s.siteName} · technician: {s.technicianName}
                       </span>
                       {s.demo && s.state === 'live' && (
                         <span className="block text-sm">A simulated machine: the virtual technician takes the readings and turns the screws you send.</span>

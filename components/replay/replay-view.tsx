@@ -251,7 +251,7 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
       <header className="flex flex-wrap items-center justify-between gap-3 xl:col-span-2">
         <div>
           <p className="text-sm font-semibold uppercase tracking-wide text-ink-soft">
-            Replay · technician {technicianName} · {index.events.length} events
+            Replay · technician: {technicianName} · {index.events.length} events
           </p>
           <h1 className="text-2xl font-bold">{record.machineLabel ?? machineLabel}</h1>
         </div>

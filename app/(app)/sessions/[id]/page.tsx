@@ -44,7 +44,7 @@ export default async function SessionPage({ params }: { params: Promise<{ id: st
           {machine.model} · {machine.serial}
         </b>
         <span className="block text-ink-soft">
-          {machine.site.customer.name} · {machine.site.name} · technician {access.technician.name} · opened {access.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC
+          {machine.site.customer.name} · {machine.site.name} · technician: {access.technician.name} · opened {access.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC
         </span>
       </p>
       {returnedToMe && (
