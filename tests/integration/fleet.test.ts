@@ -4,7 +4,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { machines, screws, sites } from '@/db/schema';
 import { footprintTemplate } from '@/lib/fleet/footprint';
 import { CSV_COLUMNS } from '@/lib/fleet/machines-csv';
-import { makeOrganisation, testDb, type OrgFixture } from './helpers/fixtures';
+import { MACHINE_SIZE, makeOrganisation, testDb, type OrgFixture } from './helpers/fixtures';
 import { APP_URL, api, signInOverHttp } from './helpers/http';
 
 const db = testDb();
@@ -26,11 +26,7 @@ const newMachine = (patch: Record<string, unknown> = {}) => ({
   siteId,
   model: 'Fixture VMC',
   serial: `FX-${randomUUID().slice(0, 8)}`,
-  tableLengthMm: 1000,
-  tableWidthMm: 500,
-  travelXMm: 800,
-  travelYMm: 500,
-  travelZMm: 500,
+  ...MACHINE_SIZE,
   checkIntervalMonths: 9,
   screws: footprintTemplate(6, 2000, 1500),
   ...patch,

@@ -23,6 +23,7 @@ import type { Role } from '@/db/schema';
 import { footprintTemplate } from '@/lib/fleet/footprint';
 import { CSV_COLUMNS } from '@/lib/fleet/machines-csv';
 import type { CommandName } from '@/lib/realtime/contract';
+import { MACHINE_SIZE } from '../helpers/fixtures';
 import { APP_URL } from '../helpers/http';
 import type { Column, World } from './world';
 import { PDF_BYTES, SIGNATURE } from './world';
@@ -87,11 +88,7 @@ const machineBody = (w: World) => ({
   siteId: w.ids.siteId,
   model: 'Access VMC',
   serial: w.fresh.serial('AX'),
-  tableLengthMm: 1000,
-  tableWidthMm: 500,
-  travelXMm: 800,
-  travelYMm: 500,
-  travelZMm: 500,
+  ...MACHINE_SIZE,
   checkIntervalMonths: 9,
   screws: footprintTemplate(4, 2000, 1500),
 });

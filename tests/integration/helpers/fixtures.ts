@@ -15,6 +15,9 @@ export function testDb(): Db {
   return shared;
 }
 
+/** A fixture machine's table and travels, in mm (the same for every integration test's machine). */
+export const MACHINE_SIZE = { tableLengthMm: 1000, tableWidthMm: 500, travelXMm: 800, travelYMm: 500, travelZMm: 500 } as const;
+
 export type OrgFixture = {
   organisationId: string;
   machineId: string;
@@ -34,7 +37,7 @@ export async function makeOrganisation(db: Db, label = 'Fixture'): Promise<OrgFi
   const [site] = await db.insert(sites).values({ organisationId: org!.id, customerId: customer!.id, name: `${label} site` }).returning();
   const [machine] = await db
     .insert(machines)
-    .values({ organisationId: org!.id, siteId: site!.id, model: `${label} VMC`, serial: tag, tableLengthMm: 1000, tableWidthMm: 500, travelXMm: 800, travelYMm: 500, travelZMm: 500 })
+    .values({ organisationId: org!.id, siteId: site!.id, model: `${label} VMC`, serial: tag, ...MACHINE_SIZE })
     .returning();
   await db.insert(screws).values(
     [
