@@ -17,6 +17,7 @@ import { LinkStrip } from './link-strip';
 import { MoveCard } from './move-card';
 import { NotesPanel } from './notes-panel';
 import { PhotoPanel } from './photo-panel';
+import { usePhotoQueue } from './use-photo-queue';
 import { ReadingEntry } from './reading-entry';
 import { ReturnedBanner } from './returned-banner';
 import { StageReadings } from './stage-readings';
@@ -48,6 +49,7 @@ type Spot = { axis: 'x' | 'y'; positionMm: number };
  */
 export function FieldView({ sessionId, userId, unitSystem, machineLabel, tableMm }: Props) {
   const { events, state, link, outbox, rejected, dismissRejected, send, seen } = useLiveSession(sessionId, userId);
+  const photoQueue = usePhotoQueue(sessionId, userId, link === 'live');
 
   useEffect(() => {
     // The checks' schemas load first, so the worker's cache takes their script with the rest of the page.
@@ -143,7 +145,7 @@ export function FieldView({ sessionId, userId, unitSystem, machineLabel, tableMm
           <span className="sr-only">Field view: </span>
           {machineLabel}
         </h1>
-        <LinkStrip link={link} pending={outbox.length} rejected={rejected} onDismiss={dismissRejected} />
+        <LinkStrip link={link} pending={outbox.length + photoQueue.waiting.length} rejected={rejected} onDismiss={dismissRejected} />
         {moves.length > 0 && (
           <a href="#moves" className="flex min-h-12 items-center justify-between gap-2 rounded-lg bg-bubble px-3 font-bold text-ink">
             <span>
@@ -368,7 +370,7 @@ export function FieldView({ sessionId, userId, unitSystem, machineLabel, tableMm
         {!next && !ended && (
           <FinishSession
             verdict={verdict}
-            waiting={outbox.length}
+            waiting={outbox.length + photoQueue.waiting.length}
             online={link === 'live'}
             onFinish={async (reason) => void (await send('session:end', reason ? { reason } : {}))}
           />
@@ -376,7 +378,7 @@ export function FieldView({ sessionId, userId, unitSystem, machineLabel, tableMm
       </section>
 
       <NotesPanel sessionId={sessionId} notes={state.notes} pending={pendingNotes(outbox)} participants={state.participants} disabled={ended} onPost={async (body) => void (await send('note:post', body))} />
-      <PhotoPanel sessionId={sessionId} stage={stage} photos={state.photos} online={link === 'live'} disabled={ended} />
+      <PhotoPanel sessionId={sessionId} stage={stage} photos={state.photos} queue={photoQueue} online={link === 'live'} disabled={ended} />
       {!ended && link === 'live' && <AddParticipant sessionId={sessionId} participants={state.participants} large />}
 
       <output hidden data-testid="seen-seqs">

@@ -3,6 +3,7 @@
 import { openDB, type DBSchema, type IDBPDatabase } from 'idb';
 import type { AppendingCommand } from '@/lib/realtime/contract';
 import type { SessionEvent } from '@/lib/session/events';
+import type { SessionStage } from '@/lib/session/stages';
 
 /** A command waiting for the server's acknowledgement; kept in IndexedDB so a reload or a restart loses nothing. */
 export type QueuedCommand = {
@@ -16,19 +17,39 @@ export type QueuedCommand = {
   attempts: number;
 };
 
+/**
+ * A photo taken while it could not be uploaded (or before its upload was answered): the image itself, kept until the
+ * server has stored it; resent with the same id, which the server stores once.
+ */
+export type QueuedPhoto = {
+  id: string;
+  sessionId: string;
+  /** Who took it: only its maker's signed-in views upload it, as for commands. */
+  userId: string;
+  stage: SessionStage;
+  caption: string;
+  file: Blob;
+  fileName: string;
+  queuedAt: number;
+};
+
 interface LevelwireDb extends DBSchema {
   outbox: { key: string; value: QueuedCommand; indexes: { bySession: [string, number] } };
   logs: { key: string; value: { sessionId: string; events: SessionEvent[] } };
+  photos: { key: string; value: QueuedPhoto; indexes: { bySession: [string, number] } };
 }
 
 let opening: Promise<IDBPDatabase<LevelwireDb>> | null = null;
 
 function database() {
-  opening ??= openDB<LevelwireDb>('levelwire', 1, {
-    upgrade(db) {
-      const outbox = db.createObjectStore('outbox', { keyPath: 'id' });
-      outbox.createIndex('bySession', ['sessionId', 'queuedAt']);
-      db.createObjectStore('logs', { keyPath: 'sessionId' });
+  opening ??= openDB<LevelwireDb>('levelwire', 2, {
+    upgrade(db, oldVersion) {
+      if (oldVersion < 1) {
+        const outbox = db.createObjectStore('outbox', { keyPath: 'id' });
+        outbox.createIndex('bySession', ['sessionId', 'queuedAt']);
+        db.createObjectStore('logs', { keyPath: 'sessionId' });
+      }
+      if (oldVersion < 2) db.createObjectStore('photos', { keyPath: 'id' }).createIndex('bySession', ['sessionId', 'queuedAt']);
     },
   });
   return opening;
@@ -46,9 +67,27 @@ export async function queued(sessionId: string, userId: string): Promise<QueuedC
   return all.filter((c) => c.userId === userId);
 }
 
-/** How many commands on this device wait for one user, over every session (asked before signing out). */
+/** How many commands and photos on this device wait for one user, over every session (asked before signing out). */
 export async function pendingFor(userId: string): Promise<number> {
-  return (await (await database()).getAll('outbox')).filter((c) => c.userId === userId).length;
+  const db = await database();
+  const [commands, photos] = await Promise.all([db.getAll('outbox'), db.getAll('photos')]);
+  return [...commands, ...photos].filter((c) => c.userId === userId).length;
+}
+
+/** Keeps a photo until the server has it (written before the upload starts). */
+export async function keepPhoto(photo: QueuedPhoto): Promise<void> {
+  await (await database()).put('photos', photo);
+}
+
+/** A session's photos waiting for one user, oldest first. */
+export async function keptPhotos(sessionId: string, userId: string): Promise<QueuedPhoto[]> {
+  const db = await database();
+  const all = await db.getAllFromIndex('photos', 'bySession', IDBKeyRange.bound([sessionId, 0], [sessionId, Number.MAX_SAFE_INTEGER]));
+  return all.filter((p) => p.userId === userId);
+}
+
+export async function dropPhoto(id: string): Promise<void> {
+  await (await database()).delete('photos', id);
 }
 
 /**

@@ -1,22 +1,24 @@
 import { expect, test, type Page } from '@playwright/test';
+import sharp from 'sharp';
 import { DEMO_MACHINE_SERIAL, DEMO_PASSWORD } from '../../db/seed';
 import type { SessionEvent } from '../../lib/session/events';
 import { FieldPage } from './pages/field-page';
 import { emailOf, signedIn } from './pages/personas';
 
-/** The ids of the commands waiting in the field view's IndexedDB outbox, oldest first. */
-async function outboxIds(page: Page): Promise<string[]> {
+/** The ids of what waits in one of the field view's IndexedDB stores (commands or photos), oldest first. */
+async function outboxIds(page: Page, store: 'outbox' | 'photos' = 'outbox'): Promise<string[]> {
   return page.evaluate(
-    () =>
+    (store) =>
       new Promise<string[]>((resolve, reject) => {
         const open = indexedDB.open('levelwire');
         open.onerror = () => reject(open.error);
         open.onsuccess = () => {
-          const all = open.result.transaction('outbox').objectStore('outbox').getAll();
+          const all = open.result.transaction(store).objectStore(store).getAll();
           all.onerror = () => reject(all.error);
           all.onsuccess = () => resolve((all.result as { id: string; queuedAt: number }[]).sort((a, b) => a.queuedAt - b.queuedAt).map((c) => c.id));
         };
       }),
+    store,
   );
 }
 
@@ -158,5 +160,60 @@ test('a reading left queued by one person is never sent under another’s name o
   await expect(field.outboxCount).toHaveText('0', { timeout: 20_000 });
   const stored = await readingsStored();
   expect(stored.map((e) => [(e.payload as { divisions: number }).divisions, e.actorRole])).toEqual([[1, 'technician']]);
+  await tech.context.close();
+});
+
+/**
+ * A photo attached without a network (the pads before lowering, say) is kept on the device with its image, survives a
+ * reload without a network, and is stored once, under the id it was kept with, when the link is back.
+ */
+test('a photo attached offline survives a reload and is stored once when the link is back', async ({ browser }) => {
+  const tech = await signedIn(browser, 'technician', { width: 390, height: 844 });
+  const page = tech.page;
+  const { rows } = (await (await page.request.get(`/api/machines?q=${DEMO_MACHINE_SERIAL}`)).json()) as { rows: { id: string; serial: string }[] };
+  const { people } = (await (await page.request.get('/api/people?role=expert')).json()) as { people: { id: string; name: string }[] };
+  const opened = await page.request.post('/api/sessions', { data: { machineId: rows.find((m) => m.serial === DEMO_MACHINE_SERIAL)!.id, experts: [people[0]!.id] } });
+  expect(opened.status()).toBe(201);
+  const sessionId = ((await opened.json()) as { session: { id: string } }).session.id;
+  const photosStored = async () =>
+    ((await (await page.request.get(`/api/sessions/${sessionId}/events`)).json()) as { events: SessionEvent[] }).events.filter(
+      (e): e is SessionEvent<'photo:attached'> => e.type === 'photo:attached',
+    );
+
+  const field = new FieldPage(page);
+  await field.open(sessionId);
+  await expect(field.linkState('live')).toBeVisible();
+  await page.waitForFunction(() => navigator.serviceWorker.controller !== null, undefined, { timeout: 20_000 });
+  await tech.context.setOffline(true);
+  await expect(field.linkState('offline')).toBeVisible();
+
+  const png = await sharp({ create: { width: 64, height: 48, channels: 3, background: { r: 40, g: 120, b: 200 } } }).png().toBuffer();
+  await page.locator('input[name="file"]').setInputFiles({ name: 'pads.png', mimeType: 'image/png', buffer: png });
+  await page.locator('input[name="caption"]').fill('pads before lowering');
+  await page.getByRole('button', { name: 'Attach photo' }).click();
+  await expect(page.getByText('Photo kept on this device; it uploads when the link is back.')).toBeVisible();
+  await expect(page.getByTestId('photo-waiting')).toHaveCount(1);
+  await expect(field.outboxCount).toHaveText('1');
+  const keptIds = await outboxIds(page, 'photos');
+  expect(keptIds).toHaveLength(1);
+  expect(await photosStored()).toHaveLength(0); // the test's own request context is not cut off
+
+  const reloaded = await page.reload();
+  expect(reloaded?.fromServiceWorker(), 'the page came from the service worker').toBe(true);
+  await expect(field.linkState('offline')).toBeVisible();
+  await expect(page.getByTestId('photo-waiting')).toHaveCount(1);
+
+  await tech.context.setOffline(false);
+  await expect(field.linkState('live')).toBeVisible({ timeout: 20_000 });
+  await expect(page.getByTestId('photo-waiting')).toHaveCount(0, { timeout: 20_000 });
+  await expect(page.getByTestId('photo')).toHaveCount(1);
+  await expect(page.getByRole('img', { name: 'pads before lowering' })).toBeVisible();
+  await expect(field.outboxCount).toHaveText('0');
+  expect(await outboxIds(page, 'photos')).toEqual([]);
+
+  const stored = await photosStored();
+  expect(stored.map((e) => [e.id, e.payload.caption, e.payload.contentType, e.payload.bytes])).toEqual([[keptIds[0], 'pads before lowering', 'image/png', png.byteLength]]);
+  const thumb = await page.request.get(`/api/sessions/${sessionId}/photos/${keptIds[0]}?size=thumb`);
+  expect([thumb.status(), thumb.headers()['content-type']]).toEqual([200, 'image/webp']);
   await tech.context.close();
 });
