@@ -19,8 +19,10 @@ export function pagePolicy({ nonce, dev }: { nonce: string; dev: boolean }): str
     // React writes style attributes into server-rendered HTML (the tilt view's height legend), which would not apply
     // otherwise; they cannot run code, and img-src and font-src keep any url() in them to this origin.
     ['style-src-attr', "'unsafe-inline'"],
-    // Photos come from the app's API; the tilt view draws its labels on canvases, the stylesheets hold no data: URLs.
-    ['img-src', "'self'"],
+    // Photos come from the app's API; a photo waiting to upload is shown from a blob: URL, which only this page's own
+    // scripts can make (from the file kept on the device). The tilt view draws its labels on canvases, the
+    // stylesheets hold no data: URLs.
+    ['img-src', "'self'", 'blob:'],
     ['font-src', "'self'"],
     // 'self' covers the socket's ws:/wss: to this origin (CSP 3; Chromium, Firefox and Safari 15.4+).
     ['connect-src', "'self'"],

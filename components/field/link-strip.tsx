@@ -36,7 +36,7 @@ export function LinkStrip({ link, pending, rejected, onDismiss }: Props) {
       </div>
       {link === 'offline' && (
         <p className="rounded-lg bg-steel p-2 text-paper">
-          No link. Keep working: readings, checks, answers and notes stay on this device and go out in order when the link is back. Photos are not kept offline.
+          No link. Keep working: readings, checks, answers, notes and photos stay on this device and go out when the link is back.
         </p>
       )}
       {rejected.map((r) => (

@@ -193,6 +193,8 @@ test('a photo attached offline survives a reload and is stored once when the lin
   await page.getByRole('button', { name: 'Attach photo' }).click();
   await expect(page.getByText('Photo kept on this device; it uploads when the link is back.')).toBeVisible();
   await expect(page.getByTestId('photo-waiting')).toHaveCount(1);
+  // The waiting photo is drawn from the image kept on the device (its blob: URL passes the page's policy).
+  await expect.poll(() => page.getByTestId('photo-waiting').locator('img').evaluate((img: HTMLImageElement) => img.naturalWidth)).toBe(64);
   await expect(field.outboxCount).toHaveText('1');
   const keptIds = await outboxIds(page, 'photos');
   expect(keptIds).toHaveLength(1);
