@@ -1,5 +1,6 @@
 import Link from 'next/link';
 import type { ReactNode } from 'react';
+import { MainNav } from '@/components/ui/main-nav';
 import { SignOutButton } from '@/components/ui/sign-out-button';
 import { Wordmark } from '@/components/ui/wordmark';
 import { can } from '@/lib/auth/policy';
@@ -33,13 +34,7 @@ export default async function AppLayout({ children }: { children: ReactNode }) {
             <SignOutButton />
           </div>
         </div>
-        <nav aria-label="Main" className="flex gap-1 overflow-x-auto px-2 pb-1">
-          {links.map((l) => (
-            <Link key={l.href} href={l.href} className="min-h-11 shrink-0 content-center rounded-t-lg px-4 font-semibold hover:bg-paper/15">
-              {l.label}
-            </Link>
-          ))}
-        </nav>
+        <MainNav links={links} />
       </header>
       <div className="flex-1">{children}</div>
     </div>
