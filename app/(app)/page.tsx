@@ -7,6 +7,7 @@ import { MachinePicker } from '@/components/session/machine-picker';
 import { DueSummary } from '@/components/due/due-summary';
 import { countDueByStatus, getReminderDaysBefore } from '@/db/queries/due';
 import { todayUtc } from '@/lib/dates';
+import { LocalTime } from '@/components/ui/local-time';
 
 export const dynamic = 'force-dynamic';
 
@@ -69,7 +70,9 @@ export default async function HomePage() {
                       </span>
                     </span>
                     <span className="flex flex-wrap items-center gap-3">
-                      <span className="tabular text-sm text-ink-soft">{s.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC</span>
+                      <span className="text-sm text-ink-soft">
+                        <LocalTime iso={s.createdAt.toISOString()} />
+                      </span>
                       <span className={`rounded-full px-3 py-1 text-sm font-bold ${s.state === 'in_review' ? 'bg-bubble' : 'bg-steel text-paper'}`}>{stateLabel[s.state]}</span>
                       <span className="font-semibold text-spirit underline underline-offset-4">Replay and review</span>
                     </span>
@@ -115,7 +118,9 @@ export default async function HomePage() {
                     </span>
                     <span className="flex flex-wrap items-center gap-3">
                       <span className="text-sm font-semibold">{standingLabel[s.standing]}</span>
-                      <span className="tabular text-sm text-ink-soft">{s.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC</span>
+                      <span className="text-sm text-ink-soft">
+                        <LocalTime iso={s.createdAt.toISOString()} />
+                      </span>
                       <span
                         className={`rounded-full px-3 py-1 text-sm font-bold ${s.state === 'live' ? 'bg-vial text-ink' : s.state === 'returned' ? 'bg-fail text-white' : s.state === 'approved' ? 'bg-pass text-white' : 'bg-rule'}`}
                       >

@@ -7,6 +7,7 @@ import { apiFetch, ApiError } from '@/components/session/api';
 import { Button } from '@/components/ui/button';
 import { FormField, inputClass } from '@/components/ui/form-field';
 import { INVITE_ROLES, invitationInput, type InvitationFormValues, type InvitationInput } from '@/lib/fleet/invitations';
+import { LocalTime } from '@/components/ui/local-time';
 
 type Role = (typeof INVITE_ROLES)[number];
 type UserRow = { id: string; name: string; email: string; role: Role; active: boolean };
@@ -171,7 +172,7 @@ export function UsersPanel({ actorId }: { actorId: string }) {
                 <span className="font-semibold">{i.email}</span>
                 <span className="text-ink-soft"> · {roleLabel[i.role]} · invited by {i.invitedBy}</span>
               </span>
-              <span className="tabular text-sm text-ink-soft">link valid until {new Date(i.expiresAt).toISOString().slice(0, 16).replace('T', ' ')} UTC</span>
+              <span className="tabular text-sm text-ink-soft">link valid until <LocalTime iso={new Date(i.expiresAt).toISOString()} /></span>
             </li>
           ))}
         </ul>

@@ -5,7 +5,7 @@ import Link from 'next/link';
 import { useState } from 'react';
 import { DataTable } from '@/components/ui/data-table';
 import type { VisitRow } from '@/lib/fleet/visits';
-import { LocalTime } from './local-time';
+import { LocalTime } from '@/components/ui/local-time';
 import { VisitStateChip } from './visit-state-chip';
 
 /** The react-query key of every visit list; scheduling or changing a visit invalidates it. */

@@ -64,3 +64,23 @@ test('the due list shows overdue machines first and links an admin to the schedu
   await expect(tech.page.getByRole('link', { name: 'Schedule visit' })).toHaveCount(0);
   await tech.context.close();
 });
+
+/**
+ * Times show in the viewer's own time zone once the page has loaded, not in the server's UTC (the server renders UTC,
+ * the browser renders again after hydration).
+ */
+test('a visit’s time shows in the browser’s own time zone, not the server’s', async ({ browser }) => {
+  const admin = await signedIn(browser, 'admin', { width: 1024, height: 768, timezoneId: 'Asia/Kolkata' });
+  const { rows } = (await (await admin.page.request.get('/api/visits')).json()) as { rows: { id: string; scheduledFor: string }[] };
+  expect(rows.length, 'the demo data has a visit').toBeGreaterThan(0);
+  const visit = rows[0]!;
+  await admin.page.goto(`/visits/${visit.id}`);
+  const shown = admin.page.locator(`time[datetime="${new Date(visit.scheduledFor).toISOString()}"]`).first();
+  // Asia/Kolkata is UTC+05:30 all year (IANA time zone database: no daylight saving since 1945), so the wall-clock time
+  // is the UTC time plus 5 h 30 min; its minutes differ from the UTC time's, so the UTC text cannot pass by chance.
+  const local = new Date(Date.parse(visit.scheduledFor) + 330 * 60_000);
+  const hhmm = `${String(local.getUTCHours()).padStart(2, '0')}:${String(local.getUTCMinutes()).padStart(2, '0')}`;
+  await expect(shown).toContainText(hhmm);
+  await expect(shown).not.toContainText('UTC');
+  await admin.context.close();
+});

@@ -6,16 +6,17 @@ export type Persona = (typeof DEMO_USERS)[number]['role'];
 export const emailOf = (role: Persona) => DEMO_USERS.find((u) => u.role === role)!.email;
 
 /**
- * A fresh browser context signed in through the sign-in page as one of the demo personas; `beforeFirstPage` runs on
- * the new page before it opens anything (to watch it from the start).
+ * A fresh browser context signed in through the sign-in page as one of the demo personas: `screen` is the window's
+ * size and, when given, the browser's time zone (an IANA name); `beforeFirstPage` runs on the new page before it
+ * opens anything (to watch it from the start).
  */
 export async function signedIn(
   browser: Browser,
   role: Persona,
-  viewport?: { width: number; height: number },
+  screen?: { width: number; height: number; timezoneId?: string },
   beforeFirstPage?: (page: Page) => Promise<void>,
 ): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext(viewport ? { viewport } : {});
+  const context = await browser.newContext(screen ? { viewport: { width: screen.width, height: screen.height }, timezoneId: screen.timezoneId } : {});
   const page = await context.newPage();
   await beforeFirstPage?.(page);
   await page.goto('/sign-in');

@@ -8,6 +8,7 @@ import { can } from '@/lib/auth/policy';
 import { AppError } from '@/lib/errors';
 import { loadSessionFor } from '@/lib/session/service';
 import { StatusChip } from '@/components/review/record-status';
+import { LocalTime } from '@/components/ui/local-time';
 
 export const metadata: Metadata = { title: 'Session' };
 
@@ -44,7 +45,7 @@ export default async function SessionPage({ params }: { params: Promise<{ id: st
           {machine.model} · {machine.serial}
         </b>
         <span className="block text-ink-soft">
-          {machine.site.customer.name} · {machine.site.name} · technician: {access.technician.name} · opened {access.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC
+          {machine.site.customer.name} · {machine.site.name} · technician: {access.technician.name} · opened <LocalTime iso={access.createdAt.toISOString()} />
         </span>
       </p>
       {returnedToMe && (

@@ -5,7 +5,7 @@ import { db } from '@/db/client';
 import { getVisit, listActiveInstruments, listVisitInstruments, listVisitSessions } from '@/db/queries/visits';
 import { StartVisitSession } from '@/components/visits/start-visit-session';
 import { convertSlope, type SlopeUnit } from '@/lib/leveling/units';
-import { LocalTime } from '@/components/visits/local-time';
+import { LocalTime } from '@/components/ui/local-time';
 import { VisitActions } from '@/components/visits/visit-actions';
 import { VisitInstruments } from '@/components/visits/visit-instruments';
 import { VisitStateChip } from '@/components/visits/visit-state-chip';
@@ -90,7 +90,7 @@ export default async function VisitPage({ params }: { params: Promise<{ id: stri
         </div>
         <div className="sm:col-span-2">
           <dt className="font-semibold text-ink-soft">Reminder</dt>
-          <dd>{visit.reminderSentAt ? `Sent ${visit.reminderSentAt.toISOString().slice(0, 16).replace('T', ' ')} UTC` : 'Goes out 24 hours before the visit'}</dd>
+          <dd>{visit.reminderSentAt ? <>Sent <LocalTime iso={visit.reminderSentAt.toISOString()} /></> : 'Goes out 24 hours before the visit'}</dd>
         </div>
       </dl>
       <VisitInstruments
@@ -110,7 +110,7 @@ export default async function VisitPage({ params }: { params: Promise<{ id: stri
             {sessions.map((s) => (
               <li key={s.id}>
                 <Link href={`/sessions/${s.id}`} className="inline-flex min-h-12 items-center font-semibold text-spirit underline underline-offset-4">
-                  Session opened {s.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC · {s.state.replace('_', ' ')} · {s.lastSeq} events
+                  Session opened <LocalTime iso={s.createdAt.toISOString()} /> · {s.state.replace('_', ' ')} · {s.lastSeq} events
                 </Link>
               </li>
             ))}
