@@ -60,12 +60,14 @@ export async function enqueue(cmd: QueuedCommand): Promise<void> {
   await (await database()).put('outbox', cmd);
 }
 
-/** A session's commands queued by one user, in the order they were made. */
-export async function queued(sessionId: string, userId: string): Promise<QueuedCommand[]> {
-  const db = await database();
-  const all = await db.getAllFromIndex('outbox', 'bySession', IDBKeyRange.bound([sessionId, 0], [sessionId, Number.MAX_SAFE_INTEGER]));
-  return all.filter((c) => c.userId === userId);
+/** What waits in `store` for one session and one user, oldest first. */
+async function waiting<S extends 'outbox' | 'photos'>(store: S, sessionId: string, userId: string): Promise<LevelwireDb[S]['value'][]> {
+  const all = await (await database()).getAllFromIndex(store, 'bySession', IDBKeyRange.bound([sessionId, 0], [sessionId, Number.MAX_SAFE_INTEGER]));
+  return all.filter((x) => x.userId === userId);
 }
+
+/** A session's commands queued by one user, in the order they were made. */
+export const queued = (sessionId: string, userId: string): Promise<QueuedCommand[]> => waiting('outbox', sessionId, userId);
 
 /** How many commands and photos on this device wait for one user, over every session (asked before signing out). */
 export async function pendingFor(userId: string): Promise<number> {
@@ -80,11 +82,7 @@ export async function keepPhoto(photo: QueuedPhoto): Promise<void> {
 }
 
 /** A session's photos waiting for one user, oldest first. */
-export async function keptPhotos(sessionId: string, userId: string): Promise<QueuedPhoto[]> {
-  const db = await database();
-  const all = await db.getAllFromIndex('photos', 'bySession', IDBKeyRange.bound([sessionId, 0], [sessionId, Number.MAX_SAFE_INTEGER]));
-  return all.filter((p) => p.userId === userId);
-}
+export const keptPhotos = (sessionId: string, userId: string): Promise<QueuedPhoto[]> => waiting('photos', sessionId, userId);
 
 export async function dropPhoto(id: string): Promise<void> {
   await (await database()).delete('photos', id);
