@@ -48,7 +48,7 @@ export function PhotoPanel({ sessionId, stage, photos, queue, online, disabled }
       setCaption('');
       if (fileRef.current) fileRef.current.value = '';
     } catch {
-      setProblem('This device could not keep the photo (its storage may be full); nothing was stored.');
+      setProblem('There is no link and this device could not keep the photo (its storage may be full); nothing was stored.');
     } finally {
       setBusy(false);
     }

@@ -91,10 +91,21 @@ export function usePhotoQueue(sessionId: string, userId: string, online: boolean
     };
   }, []);
 
-  /** Keeps the photo on this device first, then uploads it when the link is up. */
+  /**
+   * Keeps the photo on this device first, then uploads it when the link is up. When the device cannot keep it (no
+   * IndexedDB, storage full) and the link is up, it is uploaded directly; offline, that failure is thrown.
+   */
   const add = useCallback(
     async (file: File, stage: SessionStage, caption: string) => {
-      await keepPhoto({ id: crypto.randomUUID(), sessionId, userId, stage, caption, file, fileName: file.name || 'photo', queuedAt: Date.now() });
+      const photo: QueuedPhoto = { id: crypto.randomUUID(), sessionId, userId, stage, caption, file, fileName: file.name || 'photo', queuedAt: Date.now() };
+      try {
+        await keepPhoto(photo);
+      } catch (e) {
+        if (!online) throw e;
+        const outcome = await upload(photo);
+        setNotice(outcome.done ? outcome.notice : { tone: 'error', text: 'The upload did not get through and this device could not keep the photo; try again.' });
+        return;
+      }
       await refresh();
       if (online) await drain();
       else setNotice({ tone: 'ok', text: KEPT });
