@@ -54,7 +54,7 @@ export default async function VisitPage({ params }: { params: Promise<{ id: stri
           </h1>
           <p className="text-lg">
             <LocalTime iso={visit.scheduledFor.toISOString()} />
-            <span className="text-ink-soft"> · {timeInWords(visit.scheduledFor)}</span>
+            <span className="block text-base text-ink-soft">In e-mails: {timeInWords(visit.scheduledFor)}</span>
           </p>
         </div>
         <VisitStateChip state={visit.state} />
