@@ -46,7 +46,7 @@ export default async function HomePage() {
   sessions.sort((a, b) => Number(b.demo && b.state === 'live') - Number(a.demo && a.state === 'live'));
 
   return (
-    <main className="mx-auto grid max-w-5xl gap-8 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-5xl grid-cols-[minmax(0,1fr)] gap-8 p-4 sm:p-6">
       <DueSummary overdue={due.overdue} dueSoon={due.dueSoon} soonDays={soonDays} />
       {reviews && (
         <section aria-labelledby="review-h" data-testid="awaiting-review">

@@ -123,14 +123,14 @@ export function UsersPanel({ actorId }: { actorId: string }) {
   const users = useQuery({ queryKey: USERS_KEY, queryFn: () => apiFetch<{ users: UserRow[] }>('/api/users') });
   const invitations = useQuery({ queryKey: INVITATIONS_KEY, queryFn: () => apiFetch<{ invitations: InvitationRow[] }>('/api/invitations') });
   return (
-    <div className="grid gap-8">
-      <section aria-labelledby="people-h" className="grid gap-3">
+    <div className="grid grid-cols-[minmax(0,1fr)] gap-8">
+      <section aria-labelledby="people-h" className="grid grid-cols-[minmax(0,1fr)] gap-3">
         <h2 id="people-h" className="text-xl font-bold">
           People
         </h2>
         <p className="text-ink-soft">A deactivated person is signed out at once, live sessions included, and cannot sign in until reactivated.</p>
         {users.error && <p role="alert" className="font-semibold text-fail">{users.error.message}</p>}
-        <div className="overflow-x-auto rounded-xl border-2 border-rule bg-card">
+        <div className="relative overflow-x-auto rounded-xl border-2 border-rule bg-card">
           <table className="w-full border-collapse text-left">
             <thead className="bg-steel text-paper">
               <tr>

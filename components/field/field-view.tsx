@@ -139,7 +139,7 @@ export function FieldView({ sessionId, userId, unitSystem, machineLabel, tableMm
   const roundSeqs = new Set([...round.values()].map((r) => r.seq));
 
   return (
-    <main className="mx-auto grid max-w-3xl grid-cols-[minmax(0,1fr)] gap-4 p-3 pb-16 sm:p-4">
+    <main className="mx-auto grid max-w-3xl grid-cols-[minmax(0,1fr)] grid-cols-[minmax(0,1fr)] gap-4 p-3 pb-16 sm:p-4">
       <div className="sticky top-0 z-20 -mx-3 grid gap-2 border-b-2 border-rule bg-paper/95 px-3 py-2 backdrop-blur sm:-mx-4 sm:px-4">
         <h1 className="truncate text-base font-bold leading-tight">
           <span className="sr-only">Field view: </span>

@@ -80,7 +80,7 @@ export function CertificatePanel({ instrument, mayUpload }: { instrument: Instru
                 setFile(f);
                 setLocalError(f && f.size > MAX_BYTES ? `${f.name} is ${formatBytes(f.size)}; a certificate may be at most 10 MB` : null);
               }}
-              className="min-h-12 rounded-lg border-2 border-dashed border-ink bg-paper p-2 text-lg font-normal file:mr-3 file:min-h-10 file:rounded-md file:border-0 file:bg-steel file:px-4 file:font-semibold file:text-paper"
+              className="min-h-12 w-full min-w-0 rounded-lg border-2 border-dashed border-ink bg-paper p-2 text-lg font-normal file:mr-3 file:min-h-10 file:rounded-md file:border-0 file:bg-steel file:px-4 file:font-semibold file:text-paper"
             />
             <span className="text-sm font-normal text-ink-soft">PDF, PNG, JPEG or WebP, at most 10 MB.</span>
           </label>

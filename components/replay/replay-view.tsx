@@ -227,7 +227,7 @@ export function ReplayView({ sessionId, standing, selfId, unitSystem, machineLab
 
   if (error) {
     return (
-      <main className="mx-auto grid max-w-xl gap-3 p-6">
+      <main className="mx-auto grid max-w-xl grid-cols-[minmax(0,1fr)] gap-3 p-6">
         <h1 className="text-2xl font-bold">The record could not be loaded</h1>
         <p role="alert" className="text-fail">
           {error.message}

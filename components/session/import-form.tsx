@@ -112,7 +112,7 @@ export function ImportForm() {
         <input
           type="file"
           accept=".json,application/json"
-          className="min-h-12 rounded-lg border-2 border-ink bg-card p-2 font-normal"
+          className="min-h-12 w-full min-w-0 rounded-lg border-2 border-ink bg-card p-2 font-normal"
           ref={input}
           onChange={(e) => void choose(e.target.files?.[0])}
         />

@@ -69,7 +69,7 @@ export function DataTable<T>({ endpoint, queryKey, columns, initialSort, filterL
         {toolbar}
       </div>
       {error && <p role="alert" className="rounded-lg bg-fail/10 p-3 font-semibold text-fail">{error.message}</p>}
-      <div className="overflow-x-auto rounded-xl border-2 border-rule bg-card">
+      <div className="relative overflow-x-auto rounded-xl border-2 border-rule bg-card">
         <table className="w-full border-collapse text-left">
           <thead className="bg-steel text-paper">
             {table.getHeaderGroups().map((hg) => (

@@ -17,7 +17,7 @@ export default async function DuePage() {
   const today = todayUtc(new Date());
   const counts = await countDueByStatus(db(), { organisationId, today, soonDays });
   return (
-    <main className="mx-auto grid max-w-6xl gap-4 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-6xl grid-cols-[minmax(0,1fr)] gap-4 p-4 sm:p-6">
       <div>
         <h1 className="text-2xl font-bold">Due list</h1>
         <p className="text-ink-soft">

@@ -11,7 +11,7 @@ export const dynamic = 'force-dynamic';
 export default async function InstrumentsPage() {
   const actor = await requirePageActor('/instruments');
   return (
-    <main className="mx-auto grid max-w-6xl gap-4 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-6xl grid-cols-[minmax(0,1fr)] gap-4 p-4 sm:p-6">
       <div className="flex flex-wrap items-center justify-between gap-3">
         <div>
           <h1 className="text-2xl font-bold">Instruments</h1>

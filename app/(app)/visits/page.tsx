@@ -25,7 +25,7 @@ export default async function VisitsPage({ searchParams }: { searchParams: Promi
       ])
     : [[], [], null];
   return (
-    <main className="mx-auto grid max-w-6xl gap-6 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-6xl grid-cols-[minmax(0,1fr)] gap-6 p-4 sm:p-6">
       <div className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl font-bold">Visits</h1>

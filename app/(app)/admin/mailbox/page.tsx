@@ -26,7 +26,7 @@ export default async function MailboxPage({ searchParams }: { searchParams: Prom
   const filter = to?.trim() || undefined;
   const mails = await listCapturedMail({ to: filter, limit: 100 });
   return (
-    <main className="mx-auto grid max-w-5xl gap-4 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-5xl grid-cols-[minmax(0,1fr)] gap-4 p-4 sm:p-6">
       <div>
         <h1 className="text-2xl font-bold">Mailbox</h1>
         <p className="rounded-lg border-2 border-bubble bg-bubble/15 p-3">

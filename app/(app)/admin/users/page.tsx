@@ -9,7 +9,7 @@ export const dynamic = 'force-dynamic';
 export default async function UsersPage() {
   const actor = await requirePageActor('/admin/users');
   return (
-    <main className="mx-auto grid max-w-5xl gap-4 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-5xl grid-cols-[minmax(0,1fr)] gap-4 p-4 sm:p-6">
       <h1 className="text-2xl font-bold">Users and invitations</h1>
       {can(actor, 'user:manage') ? (
         <UsersPanel actorId={actor.id} />

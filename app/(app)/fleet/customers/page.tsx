@@ -12,7 +12,7 @@ export default async function CustomersPage() {
   const actor = await requirePageActor('/fleet/customers');
   const customers = await listCustomers(db(), { organisationId: actor.organisationId });
   return (
-    <main className="mx-auto grid max-w-5xl gap-6 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-5xl grid-cols-[minmax(0,1fr)] gap-6 p-4 sm:p-6">
       <div className="flex flex-wrap items-center justify-between gap-3">
         <h1 className="text-2xl font-bold">Customers</h1>
         <Link href="/fleet" className="font-semibold text-spirit underline underline-offset-4">

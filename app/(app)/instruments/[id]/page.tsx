@@ -27,7 +27,7 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
   const mayWrite = can(actor, 'instrument:write');
 
   return (
-    <main className="mx-auto grid max-w-4xl gap-4 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-4xl grid-cols-[minmax(0,1fr)] gap-4 p-4 sm:p-6">
       <Link href="/instruments" className="min-h-12 content-center font-semibold text-spirit underline underline-offset-4">
         ← All instruments
       </Link>

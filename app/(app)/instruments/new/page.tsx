@@ -9,7 +9,7 @@ export const metadata: Metadata = { title: 'New instrument' };
 export default async function NewInstrumentPage() {
   const actor = await requirePageActor('/instruments/new');
   return (
-    <main className="mx-auto grid max-w-3xl gap-4 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-3xl grid-cols-[minmax(0,1fr)] gap-4 p-4 sm:p-6">
       <Link href="/instruments" className="min-h-12 content-center font-semibold text-spirit underline underline-offset-4">
         ← All instruments
       </Link>

@@ -35,7 +35,7 @@ export default async function SessionPage({ params }: { params: Promise<{ id: st
   const returnedToMe = state === 'returned' && access.standing === 'technician';
   const reviews = can(actor, 'session:review') && access.standing === 'reader';
   return (
-    <main className="mx-auto grid max-w-xl gap-4 p-6">
+    <main className="mx-auto grid max-w-xl grid-cols-[minmax(0,1fr)] gap-4 p-6">
       <div className="flex flex-wrap items-center justify-between gap-2">
         <h1 className="text-2xl font-bold">Session record</h1>
         <StatusChip status={state} />
@@ -74,7 +74,7 @@ export default async function SessionPage({ params }: { params: Promise<{ id: st
 
 function NotTakingPart() {
   return (
-    <main className="mx-auto grid max-w-xl gap-4 p-6">
+    <main className="mx-auto grid max-w-xl grid-cols-[minmax(0,1fr)] gap-4 p-6">
       <h1 className="text-2xl font-bold">You do not take part in this session</h1>
       <p>
         Only the session’s technician, experts and observers see it, and the organisation’s reviewers and admins. Ask its technician to

@@ -9,7 +9,7 @@ export const dynamic = 'force-dynamic';
 export default async function ImportSessionPage() {
   const actor = await requirePageActor('/sessions/import');
   return (
-    <main className="mx-auto grid max-w-5xl gap-4 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-5xl grid-cols-[minmax(0,1fr)] gap-4 p-4 sm:p-6">
       <div>
         <h1 className="text-2xl font-bold">Import a session’s record</h1>
         <p className="mt-1 max-w-3xl text-ink-soft">

@@ -43,7 +43,7 @@ export default async function VisitPage({ params }: { params: Promise<{ id: stri
   const onDay = visitDay > today ? visitDay : today;
 
   return (
-    <main className="mx-auto grid max-w-5xl gap-6 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-5xl grid-cols-[minmax(0,1fr)] gap-6 p-4 sm:p-6">
       <Link href="/visits" className="inline-flex min-h-12 w-fit items-center font-semibold text-spirit underline underline-offset-4">
         ← All visits
       </Link>

@@ -17,7 +17,7 @@ export default async function CustomerPage({ params }: { params: Promise<{ id: s
   if (!customer) notFound();
   const mayWrite = can(actor, 'fleet:write');
   return (
-    <main className="mx-auto grid max-w-5xl gap-6 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-5xl grid-cols-[minmax(0,1fr)] gap-6 p-4 sm:p-6">
       <h1 className="text-2xl font-bold">{customer.name}</h1>
       {customer.notes && <p className="max-w-3xl">{customer.notes}</p>}
       {mayWrite && (

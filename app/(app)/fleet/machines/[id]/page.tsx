@@ -42,7 +42,7 @@ export default async function MachinePage({ params }: { params: Promise<{ id: st
     })),
   };
   return (
-    <main className="mx-auto grid max-w-6xl gap-4 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-6xl grid-cols-[minmax(0,1fr)] gap-4 p-4 sm:p-6">
       <div>
         <p className="text-sm font-semibold uppercase tracking-wide text-ink-soft">
           {machine.site.customer.name} · {machine.site.name}

@@ -13,7 +13,7 @@ export default async function NewMachinePage() {
   if (!can(actor, 'fleet:write')) redirect('/fleet');
   const sites = await listSites(db(), { organisationId: actor.organisationId });
   return (
-    <main className="mx-auto grid max-w-6xl gap-4 p-4 sm:p-6">
+    <main className="mx-auto grid max-w-6xl grid-cols-[minmax(0,1fr)] gap-4 p-4 sm:p-6">
       <h1 className="text-2xl font-bold">New machine</h1>
       <MachineForm unitSystem={actor.unitSystem} sites={sites} />
     </main>
