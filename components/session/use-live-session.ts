@@ -127,13 +127,18 @@ export function useLiveSession(sessionId: string, userId: string) {
       const log = queryClient.getQueryData<SessionEvent[]>(key) ?? [];
       const gap = firstGap(log);
       const afterSeq = gap === null ? (log.at(-1)?.seq ?? 0) : gap - 1;
-      socket.emit('session:join', { sessionId, afterSeq }, (res) => {
-        if (res.ok) {
+      socket.timeout(ACK_TIMEOUT_MS).emit('session:join', { sessionId, afterSeq }, (err, res) => {
+        if (!err && res.ok) {
           merge(res.events);
           setPresence(res.presence);
           setLink('live');
           void flush();
-        } else setLink('offline');
+          return;
+        }
+        setLink('offline');
+        // No answer, or refused while the server restarts or its database is away: not in the room yet, so no event
+        // would reach this view; join again while connected (a refusal for good, such as forbidden, stays offline).
+        if (err || (!res.ok && isRetryable(res.error))) setTimeout(() => socket.connected && join(), RETRY_SOON_MS);
       });
     };
     const onEvent = (event: SessionEvent) => {
