@@ -224,7 +224,15 @@ async function runScenario(s: Scenario, env: { db: Db; org: OrgFixture; cookies:
     await faults;
     clearInterval(coach);
     await expert.drained(60_000);
-    await tech.drained(60_000); // answers to the last moves
+    // The technician answers each move as it sees it; the last moves' broadcasts may still be on their way (or, after a
+    // reconnect, wait for the next event to reveal the gap, as in a view): catch up until every move is taken up,
+    // then wait for those answers to be stored.
+    const answering = Date.now() + 20_000;
+    while (tech.movesAnswered < expert.movesSent && Date.now() < answering) {
+      await tech.join();
+      await sleep(200);
+    }
+    await tech.drained(60_000);
   } catch (e) {
     problem ??= e instanceof Error ? e.message : String(e);
   }

@@ -45,7 +45,7 @@ class ScriptedClient {
     });
     this.socket.on('connect', () => {
       this.reconnects += 1;
-      void this.join().then(() => this.pump());
+      void this.joinWhileConnected().then(() => this.pump());
     });
     this.socket.on('connect_error', (err) => {
       // A handshake refused while the database was away is not retried by socket.io itself.
@@ -88,6 +88,18 @@ class ScriptedClient {
       return true;
     } catch {
       return false;
+    }
+  }
+
+  /**
+   * Joins after a (re)connection, again while the join goes unanswered or is refused (a server restarting, its
+   * database away) and the socket stays connected: until joined, no event of the session reaches this client. The
+   * field view does the same (components/session/use-live-session.ts).
+   */
+  private async joinWhileConnected(): Promise<void> {
+    for (let attempt = 0; attempt < 100 && this.socket.connected; attempt += 1) {
+      if (await this.join()) return;
+      await sleep(300);
     }
   }
 
