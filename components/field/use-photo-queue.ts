@@ -58,7 +58,7 @@ export function usePhotoQueue(sessionId: string, userId: string, online: boolean
     try {
       do {
         s.again = false;
-        for (const photo of await keptPhotos(sessionId, userId)) {
+        for (const photo of await keptPhotos(sessionId, userId).catch(() => [])) {
           const outcome = await upload(photo);
           setNotice(outcome.notice ?? { tone: 'ok', text: KEPT });
           if (!outcome.done) {
