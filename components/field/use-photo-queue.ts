@@ -44,7 +44,7 @@ async function upload(photo: QueuedPhoto): Promise<Outcome> {
 export function usePhotoQueue(sessionId: string, userId: string, online: boolean) {
   const [waiting, setWaiting] = useState<QueuedPhoto[]>([]);
   const [notice, setNotice] = useState<PhotoNotice | null>(null);
-  const state = useRef({ running: false, again: false, retry: null as ReturnType<typeof setTimeout> | null });
+  const state = useRef({ running: false, again: false, stopped: false, retry: null as ReturnType<typeof setTimeout> | null });
 
   const refresh = useCallback(async () => setWaiting(await keptPhotos(sessionId, userId).catch(() => [])), [sessionId, userId]);
 
@@ -62,7 +62,7 @@ export function usePhotoQueue(sessionId: string, userId: string, online: boolean
           const outcome = await upload(photo);
           setNotice(outcome.notice ?? { tone: 'ok', text: KEPT });
           if (!outcome.done) {
-            if (navigator.onLine && !s.retry) s.retry = setTimeout(() => ((s.retry = null), void drain()), RETRY_MS);
+            if (navigator.onLine && !s.retry && !s.stopped) s.retry = setTimeout(() => ((s.retry = null), void drain()), RETRY_MS);
             return;
           }
           await dropPhoto(photo.id);
@@ -85,7 +85,10 @@ export function usePhotoQueue(sessionId: string, userId: string, online: boolean
 
   useEffect(() => {
     const s = state.current;
+    s.stopped = false;
     return () => {
+      // The view is gone: no more tries from it (a drain still running finishes its upload, then schedules none).
+      s.stopped = true;
       if (s.retry) clearTimeout(s.retry);
       s.retry = null;
     };
